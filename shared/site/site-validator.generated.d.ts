@@ -1,0 +1,2 @@
+export declare function validateSite(data: unknown): boolean;
+export default validateSite;
