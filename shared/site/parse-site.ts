@@ -29,13 +29,19 @@ interface AjvError {
   schema?: unknown;
 }
 
+/** yaml's messages, with the stack overflow of absurd nesting said in words. */
+function readable(message: string): string {
+  if (/call stack/i.test(message)) return 'the YAML is nested too deeply to read';
+  return message.split('\n')[0];
+}
+
 const noLocation: Locator = () => ({ line: 1, column: 1 });
 
 function yamlFinding(error: YAMLError, lineCounter: LineCounter, severity: Finding['severity']): Finding {
   const { line, col } = lineCounter.linePos(error.pos[0]);
   const message = error.code === 'DUPLICATE_KEY'
     ? 'duplicate key: each key may appear only once in a mapping'
-    : error.message.split('\n')[0];
+    : readable(error.message);
   return { ruleId: 'yaml-syntax', severity, message, path: '', line, column: col };
 }
 
@@ -137,7 +143,7 @@ export function parseSite(text: string): ParsedSite {
   try {
     doc = parseDocument(text, { lineCounter, uniqueKeys: true, prettyErrors: false, strict: true, version: '1.2' });
   } catch (err) {
-    return { data: null, site: null, locate: noLocation, findings: [{ ruleId: 'yaml-syntax', severity: 'error', message: `the YAML could not be read: ${(err as Error)?.message ?? String(err)}`, path: '', line: 1, column: 1 }] };
+    return { data: null, site: null, locate: noLocation, findings: [{ ruleId: 'yaml-syntax', severity: 'error', message: `the YAML could not be read: ${readable((err as Error)?.message ?? String(err))}`, path: '', line: 1, column: 1 }] };
   }
   const locate = createLocator(doc, lineCounter);
   const findings: Finding[] = [
@@ -151,7 +157,7 @@ export function parseSite(text: string): ParsedSite {
     data = doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
   } catch (err) {
     const message = (err as Error)?.message ?? String(err);
-    findings.push({ ruleId: 'yaml-syntax', severity: 'error', message: `the YAML could not be expanded: ${message.split('\n')[0]}`, path: '', line: 1, column: 1 });
+    findings.push({ ruleId: 'yaml-syntax', severity: 'error', message: `the YAML could not be expanded: ${readable(message)}`, path: '', line: 1, column: 1 });
     return { data: null, site: null, findings: sortFindings(findings), locate };
   }
 
@@ -160,7 +166,7 @@ export function parseSite(text: string): ParsedSite {
     valid = validateSite(data) as boolean;
   } catch (err) {
     // Deeply nested input can exhaust the stack inside the validator.
-    findings.push({ ruleId: 'schema', severity: 'error', message: `the file does not have the shape of a site file (${(err as Error)?.message ?? String(err)})`, path: '', line: 1, column: 1 });
+    findings.push({ ruleId: 'schema', severity: 'error', message: `the file does not have the shape of a site file (${readable((err as Error)?.message ?? String(err))})`, path: '', line: 1, column: 1 });
     return { data, site: null, findings: sortFindings(findings), locate };
   }
   if (!valid) {

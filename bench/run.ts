@@ -1,0 +1,100 @@
+// `npm run bench [-- --quick] [-- --only check,engine,...]`: every benchmark, then one table of
+// every figure with its budget and PASS/OVER. Timing never fails the run: it exits 0 either way
+// (2 only for a bad option). The table also goes to bench/.out/results.{md,json}.
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { cpus } from 'node:os';
+import { benchApi } from './api.ts';
+import { benchCheckThroughput } from './check-throughput.ts';
+import { benchColdStart } from './cold-start.ts';
+import { benchEngine } from './engine.ts';
+import { loadBases } from './generate-sites.ts';
+import { outDir } from './lib/processes.ts';
+import { renderMarkdown, renderTable, type Figure } from './lib/report.ts';
+import { benchReviewer } from './reviewer.ts';
+
+const BENCHES = ['check', 'cold-start', 'engine', 'api', 'reviewer'] as const;
+type BenchName = (typeof BENCHES)[number];
+
+function parseArgs(argv: string[]) {
+  const quick = argv.includes('--quick');
+  let only: BenchName[] = [...BENCHES];
+  const i = argv.indexOf('--only');
+  if (i >= 0) {
+    const wanted = (argv[i + 1] ?? '').split(',').filter(Boolean);
+    const unknown = wanted.filter((w) => !(BENCHES as readonly string[]).includes(w));
+    if (unknown.length || wanted.length === 0) return { error: `--only takes a comma-separated list of: ${BENCHES.join(', ')}` };
+    only = wanted as BenchName[];
+  }
+  const known = new Set(['--quick', '--only', ...(i >= 0 ? [argv[i + 1]] : [])]);
+  const stray = argv.filter((a) => !known.has(a));
+  if (stray.length) return { error: `unknown option ${stray[0]}; use --quick and/or --only ${BENCHES.join(',')}` };
+  return { quick, only };
+}
+
+const SEED = 20_261_120;
+
+async function main() {
+  const args = parseArgs(process.argv.slice(2));
+  if ('error' in args) {
+    console.error(args.error);
+    process.exitCode = 2;
+    return;
+  }
+  const { quick, only } = args;
+  mkdirSync(outDir, { recursive: true });
+  const bases = loadBases();
+  const started = Date.now();
+  console.log(`weir benchmarks${quick ? ' (quick)' : ''}: node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}; ${bases.length} base site files (${bases.map((b) => b.name).join(', ')})`);
+
+  const figures: Figure[] = [];
+  const extra: string[] = [];
+  const step = async (name: BenchName, fn: () => Promise<Figure[]>) => {
+    if (!only.includes(name)) return;
+    const t0 = Date.now();
+    process.stdout.write(`\n== ${name} … `);
+    try {
+      const got = await fn();
+      figures.push(...got);
+      console.log(`done in ${((Date.now() - t0) / 1000).toFixed(0)} s`);
+      console.log(renderTable(got));
+    } catch (err) {
+      // A bench that breaks is reported like an over-budget figure, and the others still run.
+      const message = (err as Error)?.stack ?? String(err);
+      console.log(`failed: ${message}`);
+      figures.push({ bench: name, figure: '(bench failed)', value: '—', result: 'OVER', note: message.split('\n')[0] });
+    }
+  };
+
+  await step('check', () => benchCheckThroughput({ sizes: quick ? [1000, 3000] : [1000, 10_000], runs: quick ? [3, 1] : [5, 3], seed: SEED, bases }));
+  await step('cold-start', () => benchColdStart({ runs: quick ? 7 : 15 }));
+  await step('engine', async () => {
+    const { figures: got, profile } = await benchEngine({ count: quick ? 300 : 1000, runs: quick ? 3 : 5, seed: SEED, bases });
+    extra.push(...profile);
+    console.log(profile.join('\n'));
+    return got;
+  });
+  await step('api', async () => {
+    const { figures: got, notes } = await benchApi({ quick, seed: SEED, bases });
+    extra.push(...notes);
+    console.log(notes.join('\n'));
+    return got;
+  });
+  await step('reviewer', async () => {
+    const { figures: got, notes } = await benchReviewer({ quick, seed: SEED, bases });
+    extra.push(...notes);
+    return got;
+  });
+
+  const over = figures.filter((f) => f.result === 'OVER').length;
+  const minutes = ((Date.now() - started) / 60_000).toFixed(1);
+  console.log(`\n== all figures (${minutes} min${quick ? ', quick' : ''}; ${over} OVER)`);
+  console.log(renderTable(figures));
+  const md = [`Measured ${new Date().toISOString().slice(0, 10)} with \`npm run bench${quick ? ' -- --quick' : ''}\`, node ${process.version}, ${cpus().length} cores.`, '', renderMarkdown(figures), '', ...figures.filter((f) => f.note).map((f) => `- ${f.bench} / ${f.figure.trim()}: ${f.note}`), '', '```', ...extra, '```', ''].join('\n');
+  writeFileSync(join(outDir, 'results.md'), md);
+  writeFileSync(join(outDir, 'results.json'), JSON.stringify({ date: new Date().toISOString(), quick, node: process.version, figures, extra }, null, 2));
+  console.log(`\nwritten: bench/.out/results.md and results.json`);
+  process.exitCode = 0;
+}
+
+await main();

@@ -1,0 +1,202 @@
+import { Op, type Transaction, type WhereOptions } from 'sequelize';
+import { canonicalJson } from '../lib/canonical-json.ts';
+import { sha256Hex } from '../lib/hash.ts';
+import { AuditEvent } from './audit-event.model.ts';
+
+/** The previous hash of the first event. */
+export const GENESIS_HASH = '0'.repeat(64);
+
+export type AuditAction =
+  | 'auth.login'
+  | 'auth.login-failed'
+  | 'user.created'
+  | 'user.updated'
+  | 'user.password-changed'
+  | 'site.created'
+  | 'revision.pushed'
+  | 'revision.superseded'
+  | 'revision.approved'
+  | 'revision.returned'
+  | 'attachment.uploaded';
+
+export interface Actor {
+  id: number;
+  email: string;
+}
+
+export interface AuditInput {
+  action: AuditAction;
+  actor: Actor | null;
+  /** For a failed login: the e-mail address that was tried, when it names no account. */
+  actorEmail?: string;
+  siteId?: string | null;
+  revisionId?: number | null;
+  details?: Record<string, unknown>;
+}
+
+export interface AuditEventView {
+  seq: number;
+  at: string;
+  actor: { id: number | null; email: string | null } | null;
+  action: string;
+  siteId: string | null;
+  revisionId: number | null;
+  details: unknown;
+  prevHash: string;
+  hash: string;
+}
+
+interface HashedFields {
+  seq: number;
+  at: string;
+  actorId: number | null;
+  actorEmail: string | null;
+  action: string;
+  siteId: string | null;
+  revisionId: number | null;
+  details: unknown;
+}
+
+/** hash = SHA-256(prevHash ‖ canonical JSON of the event's fields). */
+export function eventHash(prevHash: string, fields: HashedFields): string {
+  return sha256Hex(prevHash + canonicalJson(fields));
+}
+
+function parseDetails(text: string): { ok: true; value: unknown } | { ok: false } {
+  try {
+    return { ok: true, value: JSON.parse(text) };
+  } catch {
+    return { ok: false };
+  }
+}
+
+export function toEventView(e: AuditEvent): AuditEventView {
+  const details = parseDetails(e.details);
+  return {
+    seq: e.seq,
+    at: e.at,
+    actor: e.actorId === null && e.actorEmail === null ? null : { id: e.actorId, email: e.actorEmail },
+    action: e.action,
+    siteId: e.siteId,
+    revisionId: e.revisionId,
+    details: details.ok ? details.value : e.details,
+    prevHash: e.prevHash,
+    hash: e.hash,
+  };
+}
+
+export interface AuditFilters {
+  site?: string;
+  actor?: string;
+  action?: string;
+  from?: string;
+  to?: string;
+}
+
+export interface BadEvent {
+  seq: number;
+  reason: 'gap' | 'prev-hash-mismatch' | 'hash-mismatch' | 'unreadable';
+  message: string;
+}
+
+export interface VerifyResult {
+  ok: boolean;
+  events: number;
+  /** Hash of the last event: write it down to detect a later truncation of the log. */
+  headHash: string;
+  firstBadEvent?: BadEvent;
+}
+
+const VERIFY_BATCH = 500;
+
+export function createAuditService({ now }: { now: () => Date }) {
+  /**
+   * Appends one event to the chain. Call it inside the write transaction of the change it
+   * records: the transaction holds SQLite's write lock, so the head read here stays the head.
+   */
+  async function append(t: Transaction, input: AuditInput): Promise<AuditEvent> {
+    const head = await AuditEvent.findOne({ order: [['seq', 'DESC']], attributes: ['seq', 'hash'], transaction: t });
+    const fields: HashedFields = {
+      seq: (head?.seq ?? 0) + 1,
+      at: now().toISOString(),
+      actorId: input.actor?.id ?? null,
+      actorEmail: input.actor?.email ?? input.actorEmail ?? null,
+      action: input.action,
+      siteId: input.siteId ?? null,
+      revisionId: input.revisionId ?? null,
+      details: input.details ?? {},
+    };
+    const prevHash = head?.hash ?? GENESIS_HASH;
+    return AuditEvent.create({ ...fields, details: JSON.stringify(fields.details), prevHash, hash: eventHash(prevHash, fields) }, { transaction: t });
+  }
+
+  function where(f: AuditFilters): WhereOptions<AuditEvent> {
+    const w: Record<string | symbol, unknown> = {};
+    if (f.site) w.siteId = f.site;
+    if (f.actor) {
+      if (/^\d+$/.test(f.actor)) w.actorId = Number(f.actor);
+      else w.actorEmail = f.actor.trim().toLowerCase();
+    }
+    if (f.action) {
+      // `revision.*` selects every revision action.
+      w.action = f.action.endsWith('.*') ? { [Op.startsWith]: f.action.slice(0, -1) } : f.action;
+    }
+    const at: Record<symbol, string> = {};
+    if (f.from) at[Op.gte] = new Date(f.from).toISOString();
+    if (f.to) at[Op.lte] = new Date(f.to).toISOString();
+    if (f.from || f.to) w.at = at;
+    return w as WhereOptions<AuditEvent>;
+  }
+
+  async function list(filters: AuditFilters, page: number, limit: number) {
+    const { rows, count } = await AuditEvent.findAndCountAll({ where: where(filters), order: [['seq', 'DESC']], limit, offset: (page - 1) * limit });
+    return { items: rows.map(toEventView), total: count, page, limit };
+  }
+
+  /** Every matching event in chain order, a batch at a time (for the CSV export). */
+  async function* all(filters: AuditFilters): AsyncGenerator<AuditEventView> {
+    let after = 0;
+    for (;;) {
+      const rows = await AuditEvent.findAll({ where: { ...where(filters), seq: { [Op.gt]: after } } as WhereOptions<AuditEvent>, order: [['seq', 'ASC']], limit: VERIFY_BATCH });
+      for (const r of rows) yield toEventView(r);
+      if (rows.length < VERIFY_BATCH) return;
+      after = rows[rows.length - 1].seq;
+    }
+  }
+
+  /**
+   * Recomputes the chain in seq order. A changed event breaks its own hash; one rewritten with
+   * a fresh hash breaks the next event's prevHash; a deleted one leaves a gap in seq; swapped
+   * events break both.
+   */
+  async function verify(): Promise<VerifyResult> {
+    const events = await AuditEvent.count();
+    let expectedSeq = 1;
+    let prevHash = GENESIS_HASH;
+    let after: number | null = null;
+    for (;;) {
+      // No lower bound on the first batch: a row slipped in with seq 0 or below is judged too.
+      const rows: AuditEvent[] = await AuditEvent.findAll({ where: after === null ? {} : { seq: { [Op.gt]: after } }, order: [['seq', 'ASC']], limit: VERIFY_BATCH });
+      for (const r of rows) {
+        const bad = (reason: BadEvent['reason'], message: string): VerifyResult => ({ ok: false, events, headHash: prevHash, firstBadEvent: { seq: r.seq, reason, message } });
+        if (r.seq !== expectedSeq) {
+          if (r.seq < expectedSeq) return bad('gap', `event ${r.seq} is out of sequence`);
+          return bad('gap', `event ${expectedSeq}${r.seq - 1 > expectedSeq ? `–${r.seq - 1}` : ''} is missing before event ${r.seq}`);
+        }
+        if (r.prevHash !== prevHash) return bad('prev-hash-mismatch', `event ${r.seq} does not follow the hash of the event before it`);
+        const details = parseDetails(r.details);
+        if (!details.ok) return bad('unreadable', `event ${r.seq} has details that are not JSON`);
+        const fields: HashedFields = { seq: r.seq, at: r.at, actorId: r.actorId, actorEmail: r.actorEmail, action: r.action, siteId: r.siteId, revisionId: r.revisionId, details: details.value };
+        if (eventHash(prevHash, fields) !== r.hash) return bad('hash-mismatch', `event ${r.seq} was changed after it was written`);
+        prevHash = r.hash;
+        expectedSeq++;
+      }
+      if (rows.length < VERIFY_BATCH) return { ok: true, events, headHash: prevHash };
+      after = rows[rows.length - 1].seq;
+    }
+  }
+
+  return { append, list, all, verify };
+}
+
+export type AuditService = ReturnType<typeof createAuditService>;

@@ -1,0 +1,108 @@
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { Sequelize, Transaction } from 'sequelize';
+import sqlite3 from 'sqlite3';
+import { SequelizeStorage, Umzug } from 'umzug';
+import { AuditEvent, initAuditEvent } from './audit/audit-event.model.ts';
+import { Attachment, initAttachment } from './attachments/attachment.model.ts';
+import { MIGRATIONS } from './migrations/index.ts';
+import { Review, initReview } from './revisions/review.model.ts';
+import { Revision, initRevision } from './revisions/revision.model.ts';
+import { Site, initSite } from './sites/site.model.ts';
+import { User, initUser } from './users/user.model.ts';
+
+/** How long a connection waits for another process's write lock (replicas, a backup). */
+const BUSY_TIMEOUT_MS = 10_000;
+
+export interface Database {
+  sequelize: Sequelize;
+  file: string;
+  /**
+   * Runs `fn` in one IMMEDIATE transaction: the write lock is taken at BEGIN, so what `fn`
+   * reads cannot change before it commits. Writes of this process also queue here, one at a
+   * time, so that transactions waiting for the lock never tie up every worker thread of sqlite3.
+   */
+  write<T>(fn: (t: Transaction) => Promise<T>): Promise<T>;
+  close(): Promise<void>;
+}
+
+function defineModels(sequelize: Sequelize) {
+  initUser(sequelize);
+  initSite(sequelize);
+  initRevision(sequelize);
+  initReview(sequelize);
+  initAuditEvent(sequelize);
+  initAttachment(sequelize);
+
+  // constraints: false: the schema comes from the migrations, not from these associations.
+  const loose = { constraints: false };
+  Revision.belongsTo(User, { as: 'author', foreignKey: 'authorId', ...loose });
+  Revision.belongsTo(Site, { as: 'site', foreignKey: 'siteId', ...loose });
+  Revision.hasMany(Review, { as: 'reviews', foreignKey: 'revisionId', ...loose });
+  Review.belongsTo(User, { as: 'reviewer', foreignKey: 'reviewerId', ...loose });
+  Site.belongsTo(Revision, { as: 'latestRevision', foreignKey: 'latestRevisionId', ...loose });
+  Site.belongsTo(Revision, { as: 'approvedRevision', foreignKey: 'approvedRevisionId', ...loose });
+  Site.belongsTo(User, { as: 'updatedBy', foreignKey: 'updatedById', ...loose });
+  Attachment.belongsTo(User, { as: 'uploadedBy', foreignKey: 'uploadedById', ...loose });
+}
+
+/**
+ * Sequelize opens one sqlite3 connection per transaction and sets only `foreign_keys` on it;
+ * every connection also needs the busy timeout, which is per connection in SQLite.
+ */
+function configureEachConnection(sequelize: Sequelize) {
+  const manager = sequelize.connectionManager as unknown as { getConnection(options?: unknown): Promise<sqlite3.Database & { weirReady?: boolean }> };
+  const getConnection = manager.getConnection.bind(manager);
+  manager.getConnection = async (options?: unknown) => {
+    const connection = await getConnection(options);
+    if (!connection.weirReady) {
+      connection.weirReady = true;
+      connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
+    }
+    return connection;
+  };
+}
+
+function createQueue() {
+  let tail: Promise<unknown> = Promise.resolve();
+  return <T>(task: () => Promise<T>): Promise<T> => {
+    const run = tail.then(task, task);
+    tail = run.catch(() => undefined);
+    return run;
+  };
+}
+
+export function createMigrator(sequelize: Sequelize) {
+  return new Umzug({
+    migrations: MIGRATIONS.map((m) => ({ name: m.name, up: m.up, down: m.down })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'migrations' }),
+    logger: undefined,
+  });
+}
+
+/** Opens (creating if need be) the database file and brings its schema up to date. */
+export async function openDatabase(file: string): Promise<Database> {
+  mkdirSync(path.dirname(file), { recursive: true });
+  const sequelize = new Sequelize({
+    dialect: 'sqlite',
+    dialectModule: sqlite3,
+    storage: file,
+    logging: false,
+    // One cached connection outside transactions; transactions get their own.
+    pool: { max: 1, min: 0, idle: 10_000 },
+  });
+  configureEachConnection(sequelize);
+  defineModels(sequelize);
+  // WAL: readers never wait for the writer, and the setting stays with the file.
+  await sequelize.query('PRAGMA journal_mode = WAL');
+  await createMigrator(sequelize).up();
+
+  const queue = createQueue();
+  return {
+    sequelize,
+    file,
+    write: (fn) => queue(() => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn)),
+    close: () => sequelize.close(),
+  };
+}

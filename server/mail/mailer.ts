@@ -1,0 +1,91 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir, readFile, readdir, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+import nodemailer from 'nodemailer';
+import type { Logger } from 'pino';
+
+export interface MailMessage {
+  to: string;
+  subject: string;
+  text: string;
+}
+
+export interface OutboxItem {
+  id: string;
+  to: string;
+  subject: string;
+  date: string;
+  text: string;
+}
+
+export interface Mailer {
+  /** Queues a message; delivery never fails the request that caused it (failures are logged). */
+  send(message: MailMessage): void;
+  /** Runs mail work in the background, logged on failure and awaited by `idle`. */
+  later(what: string, task: () => Promise<void>): void;
+  /** Resolves when every queued message has been delivered or has failed. */
+  idle(): Promise<void>;
+  /** Messages kept in the outbox folder, newest first; empty when mail goes out over SMTP. */
+  outbox(limit?: number): Promise<OutboxItem[]>;
+  close(): void;
+}
+
+export interface MailerOptions {
+  smtpUrl: string | null;
+  outboxDir: string;
+  from: string;
+  logger: Logger;
+}
+
+/**
+ * nodemailer over SMTP_URL; without one, every message is rendered by nodemailer all the same
+ * and written to the outbox folder as an .eml file (with a .json beside it for the listing).
+ */
+export function createMailer({ smtpUrl, outboxDir, from, logger }: MailerOptions): Mailer {
+  const transport = smtpUrl ? nodemailer.createTransport(smtpUrl) : nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' });
+  const pending = new Set<Promise<void>>();
+
+  async function deliver(message: MailMessage) {
+    const date = new Date();
+    const info = await transport.sendMail({ from, to: message.to, subject: message.subject, text: message.text, date });
+    if (smtpUrl) return;
+    const raw = (info as unknown as { message: Buffer }).message;
+    const id = `${date.toISOString().replace(/[:.]/g, '-')}-${randomBytes(4).toString('hex')}`;
+    await mkdir(outboxDir, { recursive: true });
+    await writeFile(path.join(outboxDir, `${id}.eml`), raw);
+    const item: OutboxItem = { id, to: message.to, subject: message.subject, date: date.toISOString(), text: message.text };
+    await writeFile(path.join(outboxDir, `${id}.json`), JSON.stringify(item, null, 2));
+  }
+
+  const later = (what: string, task: () => Promise<void>) => {
+    const job: Promise<void> = task()
+      .catch((err) => logger.error({ err }, `mail: ${what} failed`))
+      .finally(() => pending.delete(job));
+    pending.add(job);
+  };
+
+  return {
+    later,
+    send(message) {
+      later(`delivery to ${message.to} of "${message.subject}"`, () => deliver(message));
+    },
+    async idle() {
+      while (pending.size) await Promise.allSettled([...pending]);
+    },
+    async outbox(limit = 100) {
+      if (smtpUrl) return [];
+      let names: string[];
+      try {
+        names = await readdir(outboxDir);
+      } catch {
+        return [];
+      }
+      const newest = names.filter((n) => n.endsWith('.json')).sort().reverse().slice(0, limit);
+      const items = await Promise.all(newest.map(async (n) => JSON.parse(await readFile(path.join(outboxDir, n), 'utf8')) as OutboxItem));
+      return items;
+    },
+    close() {
+      transport.close();
+    },
+  };
+}

@@ -1,0 +1,75 @@
+import type { RevisionEvents } from '../revisions/revisions.service.ts';
+import { Review } from '../revisions/review.model.ts';
+import { Revision } from '../revisions/revision.model.ts';
+import { Site } from '../sites/site.model.ts';
+import { User } from '../users/user.model.ts';
+import type { Mailer } from './mailer.ts';
+
+/**
+ * Who hears about what: every active lead but the author when a revision awaits review, the
+ * author when it is approved or returned. Runs after the change has committed; a failure here
+ * is logged and never undoes the change.
+ */
+export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; publicUrl: string }): RevisionEvents {
+  const load = async (revisionId: number) => {
+    const revision = await Revision.findByPk(revisionId, { attributes: ['id', 'siteId', 'number', 'state', 'message', 'errorCount', 'warningCount', 'authorId'], include: [{ model: User, as: 'author' }] });
+    const site = revision && (await Site.findByPk(revision.siteId, { attributes: ['id', 'name'] }));
+    return revision && site ? { revision, site } : null;
+  };
+  const link = (siteId: string, revisionId: number) => `${publicUrl}/sites/${encodeURIComponent(siteId)}/revisions/${revisionId}`;
+  const run = (what: string, task: () => Promise<void>) => mailer.later(`the ${what} notice`, task);
+
+  return {
+    pushed(revisionId) {
+      run('awaiting-review', async () => {
+        const found = await load(revisionId);
+        if (!found) return;
+        const { revision, site } = found;
+        const leads = await User.findAll({ where: { role: 'lead', disabled: false }, attributes: ['id', 'email', 'name'] });
+        const author = revision.author;
+        const findings = revision.errorCount
+          ? `It has ${revision.errorCount} error finding(s), which block approval, and ${revision.warningCount} warning(s).`
+          : `It has no error findings and ${revision.warningCount} warning(s).`;
+        for (const lead of leads) {
+          if (lead.id === revision.authorId) continue;
+          mailer.send({
+            to: lead.email,
+            subject: `[Weir] ${site.name}: revision ${revision.number} awaits review`,
+            text: [
+              `Hello ${lead.name},`,
+              '',
+              `${author?.name ?? 'Someone'} (${author?.email ?? 'unknown'}) pushed revision ${revision.number} of ${site.name} (${site.id}).`,
+              revision.message ? `Message: ${revision.message}` : 'No message was given.',
+              findings,
+              '',
+              `Review it: ${link(site.id, revision.id)}`,
+            ].join('\n'),
+          });
+        }
+      });
+    },
+    decided(revisionId) {
+      run('decision', async () => {
+        const found = await load(revisionId);
+        if (!found?.revision.author) return;
+        const { revision, site } = found;
+        const review = await Review.findOne({ where: { revisionId }, order: [['id', 'DESC']], include: [{ model: User, as: 'reviewer' }] });
+        if (!review) return;
+        const approved = review.decision === 'approve';
+        mailer.send({
+          to: revision.author!.email,
+          subject: `[Weir] ${site.name}: revision ${revision.number} ${approved ? 'approved' : 'returned'}`,
+          text: [
+            `Hello ${revision.author!.name},`,
+            '',
+            `${review.reviewer?.name ?? 'A lead engineer'} ${approved ? 'approved' : 'returned'} revision ${revision.number} of ${site.name} (${site.id}).`,
+            review.comment ? `Comment: ${review.comment}` : 'No comment was given.',
+            approved ? 'It is now the approved configuration of the site.' : 'Change the site file and push it again.',
+            '',
+            link(site.id, revision.id),
+          ].join('\n'),
+        });
+      });
+    },
+  };
+}

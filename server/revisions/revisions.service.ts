@@ -1,0 +1,217 @@
+import { UniqueConstraintError } from 'sequelize';
+import { checkSite, diffSites, type Site as SiteDocument } from '../../shared/index.ts';
+import type { AuditService } from '../audit/audit.service.ts';
+import { can } from '../auth/permissions.ts';
+import type { Database } from '../db.ts';
+import { AppError, notFound } from '../lib/app-error.ts';
+import { sha256Hex } from '../lib/hash.ts';
+import { Site, deriveSiteStatus } from '../sites/site.model.ts';
+import { User } from '../users/user.model.ts';
+import { Review, type Decision } from './review.model.ts';
+import { Revision } from './revision.model.ts';
+import { REVISION_LIST_EXCLUDE, toReview, toRevision, type ApprovalBlocker, type RevisionDetailView, type RevisionView } from './revision.view.ts';
+
+export interface RevisionEvents {
+  /** After the commit of a new revision. */
+  pushed(revisionId: number): void;
+  /** After the commit of a review. */
+  decided(revisionId: number): void;
+}
+
+const actorOf = (u: User) => ({ id: u.id, email: u.email });
+const withAuthor = { model: User, as: 'author' };
+const withReviews = { model: Review, as: 'reviews', include: [{ model: User, as: 'reviewer' }] };
+
+export function createRevisionsService({ db, audit, now, events }: { db: Database; audit: AuditService; now: () => Date; events: RevisionEvents }) {
+  /**
+   * Checks the file with the engine (the client's findings are never trusted) and stores it as a
+   * pending revision. The same text again answers the existing revision; a file that does not
+   * parse or fails the schema is refused and nothing is stored.
+   */
+  async function push(text: string, message: string | null, author: User): Promise<{ revision: RevisionDetailView; created: boolean }> {
+    const check = checkSite(text);
+    if (!check.site) throw new AppError(422, 'invalid-site', 'the site file does not parse or does not match the schema', check.findings);
+    const doc: SiteDocument = check.site;
+    const siteId = doc.site.id;
+    const sha256 = sha256Hex(text);
+
+    const stored = async () =>
+      db.write(async (t) => {
+        const at = now();
+        let site = await Site.findByPk(siteId, { transaction: t });
+        if (site) {
+          const same = await Revision.findOne({ where: { siteId, sha256 }, attributes: ['id'], transaction: t });
+          if (same) return { id: same.id, created: false };
+        } else {
+          site = await Site.create(
+            { id: siteId, name: doc.site.name, status: 'pending', latestState: 'pending', approvedRevisionId: null, latestRevisionId: null, errorCount: 0, warningCount: 0, updatedById: author.id, createdAt: at, updatedAt: at },
+            { transaction: t },
+          );
+          await audit.append(t, { action: 'site.created', actor: actorOf(author), siteId, details: { name: doc.site.name } });
+        }
+
+        const lastNumber = ((await Revision.max('number', { where: { siteId }, transaction: t })) as number | null) ?? 0;
+        const older = await Revision.findAll({ where: { siteId, state: 'pending' }, attributes: ['id', 'number', 'state'], transaction: t });
+        const revision = await Revision.create(
+          {
+            siteId,
+            number: lastNumber + 1,
+            yaml: text,
+            sha256,
+            document: doc,
+            findings: check.findings,
+            summary: check.summary,
+            errorCount: check.counts.error,
+            warningCount: check.counts.warning,
+            infoCount: check.counts.info,
+            authorId: author.id,
+            message,
+            parentId: site.approvedRevisionId,
+            state: 'pending',
+            decidedAt: null,
+            decidedById: null,
+            createdAt: at,
+          },
+          { transaction: t },
+        );
+        await audit.append(t, {
+          action: 'revision.pushed',
+          actor: actorOf(author),
+          siteId,
+          revisionId: revision.id,
+          details: { number: revision.number, sha256, message, parentId: revision.parentId, errorCount: revision.errorCount, warningCount: revision.warningCount, infoCount: revision.infoCount },
+        });
+        // One revision awaits review per site: the newer push replaces the older.
+        for (const old of older) {
+          await Revision.update({ state: 'superseded', decidedAt: at }, { where: { id: old.id }, transaction: t });
+          await audit.append(t, { action: 'revision.superseded', actor: actorOf(author), siteId, revisionId: old.id, details: { number: old.number, supersededBy: revision.id } });
+        }
+        await site.update(
+          {
+            name: site.approvedRevisionId === null ? doc.site.name : site.name,
+            latestRevisionId: revision.id,
+            latestState: 'pending',
+            status: deriveSiteStatus('pending', site.approvedRevisionId),
+            errorCount: revision.errorCount,
+            warningCount: revision.warningCount,
+            updatedById: author.id,
+            updatedAt: at,
+          },
+          { transaction: t },
+        );
+        return { id: revision.id, created: true };
+      });
+
+    let result: { id: number; created: boolean };
+    try {
+      result = await stored();
+    } catch (err) {
+      // Another process stored the same text between our check and our insert.
+      if (!(err instanceof UniqueConstraintError)) throw err;
+      const same = await Revision.findOne({ where: { siteId, sha256 }, attributes: ['id'] });
+      if (!same) throw err;
+      result = { id: same.id, created: false };
+    }
+    if (result.created) events.pushed(result.id);
+    return { revision: await detail(result.id, author), created: result.created };
+  }
+
+  function blockers(r: Revision, site: Site, caller: User): ApprovalBlocker[] {
+    const out: ApprovalBlocker[] = [];
+    if (!can(caller.role, 'revisions:review')) out.push('not-a-lead');
+    if (r.authorId === caller.id) out.push('own-revision');
+    if (r.errorCount > 0) out.push('has-errors');
+    if (r.state !== 'pending') out.push('not-pending');
+    else if (r.parentId !== site.approvedRevisionId) out.push('stale-parent');
+    return out;
+  }
+
+  /** One revision with its text, findings, figures, reviews and the change against the approved one. */
+  async function detail(id: number, caller: User): Promise<RevisionDetailView> {
+    const r = await Revision.findByPk(id, { include: [withAuthor, withReviews], order: [[{ model: Review, as: 'reviews' }, 'id', 'ASC']] });
+    if (!r) throw notFound('the revision');
+    const site = await Site.findByPk(r.siteId);
+    if (!site) throw notFound('the site');
+    // Against the site's approved revision; the approved one itself against the one it replaced.
+    const baseId = site.approvedRevisionId !== null && site.approvedRevisionId !== r.id ? site.approvedRevisionId : r.parentId;
+    const base = baseId === null ? null : await Revision.findByPk(baseId, { attributes: ['id', 'number', 'document'] });
+    return {
+      ...toRevision(r),
+      yaml: r.yaml,
+      findings: r.findings,
+      summary: r.summary,
+      diff: diffSites(base?.document ?? null, r.document),
+      diffBase: base ? { id: base.id, number: base.number } : null,
+      reviews: (r.reviews ?? []).map(toReview),
+      approvalBlockers: blockers(r, site, caller),
+    };
+  }
+
+  /** A site's revisions, newest first, each with its reviews. */
+  async function listForSite(siteId: string): Promise<(RevisionView & { reviews: ReturnType<typeof toReview>[] })[]> {
+    if (!(await Site.findByPk(siteId, { attributes: ['id'] }))) throw notFound('the site');
+    const rows = await Revision.findAll({
+      where: { siteId },
+      attributes: { exclude: REVISION_LIST_EXCLUDE },
+      include: [withAuthor, withReviews],
+      order: [
+        ['number', 'DESC'],
+        [{ model: Review, as: 'reviews' }, 'id', 'ASC'],
+      ],
+    });
+    return rows.map((r) => ({ ...toRevision(r), reviews: (r.reviews ?? []).map(toReview) }));
+  }
+
+  /**
+   * Approve or return a pending revision. The checks run inside the write transaction, so of two
+   * reviews racing for one revision the second sees the first's outcome (409 not-pending).
+   */
+  async function review(id: number, decision: Decision, commentInput: string | undefined, reviewer: User) {
+    const comment = commentInput?.trim() || null;
+    const reviewId = await db.write(async (t) => {
+      const r = await Revision.findByPk(id, { transaction: t });
+      if (!r) throw notFound('the revision');
+      if (r.authorId === reviewer.id) throw new AppError(403, 'own-revision', 'four eyes: another lead must review a revision you pushed');
+      if (r.state !== 'pending') throw new AppError(409, 'not-pending', `revision ${r.number} is ${r.state}, not pending`);
+      if (decision === 'return' && !comment) throw new AppError(422, 'comment-required', 'say why the revision goes back: a return needs a comment');
+      const site = await Site.findByPk(r.siteId, { transaction: t });
+      if (!site) throw notFound('the site');
+      if (decision === 'approve') {
+        if (r.errorCount > 0) throw new AppError(409, 'has-errors', `revision ${r.number} has ${r.errorCount} error finding(s): it cannot be approved`, r.findings.filter((f) => f.severity === 'error'));
+        if (r.parentId !== site.approvedRevisionId) throw new AppError(409, 'stale-parent', `revision ${r.number} was based on a revision that is no longer the approved one: push it again on top of the current one`);
+      }
+      const at = now();
+      const previousApprovedId = site.approvedRevisionId;
+      const state = decision === 'approve' ? 'approved' : 'returned';
+      await r.update({ state, decidedAt: at, decidedById: reviewer.id }, { transaction: t });
+      const created = await Review.create({ revisionId: r.id, reviewerId: reviewer.id, decision, comment, createdAt: at }, { transaction: t });
+      const approvedRevisionId = decision === 'approve' ? r.id : site.approvedRevisionId;
+      const latest = site.latestRevisionId === r.id;
+      await site.update(
+        {
+          approvedRevisionId,
+          name: decision === 'approve' ? (r.document as SiteDocument).site.name : site.name,
+          ...(latest ? { latestState: state, status: deriveSiteStatus(state, approvedRevisionId) } : {}),
+          updatedById: reviewer.id,
+          updatedAt: at,
+        },
+        { transaction: t },
+      );
+      await audit.append(t, {
+        action: decision === 'approve' ? 'revision.approved' : 'revision.returned',
+        actor: actorOf(reviewer),
+        siteId: r.siteId,
+        revisionId: r.id,
+        details: { number: r.number, comment, previousApprovedId },
+      });
+      return created.id;
+    });
+    events.decided(id);
+    const review = await Review.findByPk(reviewId, { include: [{ model: User, as: 'reviewer' }] });
+    return { revision: await detail(id, reviewer), review: toReview(review!) };
+  }
+
+  return { push, detail, listForSite, review };
+}
+
+export type RevisionsService = ReturnType<typeof createRevisionsService>;

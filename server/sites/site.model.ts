@@ -1,0 +1,56 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import type { Revision, RevisionState } from '../revisions/revision.model.ts';
+import type { User } from '../users/user.model.ts';
+
+export type SiteStatus = 'pending' | 'approved' | 'returned' | 'never-approved';
+
+export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<Site>> {
+  /** `site.id` of the file. */
+  declare id: string;
+  declare name: string;
+  /** Derived from the latest revision and the approved one (deriveSiteStatus), kept for indexing. */
+  declare status: SiteStatus;
+  declare latestState: Exclude<RevisionState, 'superseded'>;
+  declare approvedRevisionId: ForeignKey<number> | null;
+  declare latestRevisionId: ForeignKey<number> | null;
+  /** Counts of the latest revision, for sorting the list. */
+  declare errorCount: number;
+  declare warningCount: number;
+  declare updatedById: ForeignKey<number> | null;
+  declare createdAt: Date;
+  declare updatedAt: Date;
+
+  declare latestRevision?: NonAttribute<Revision | null>;
+  declare approvedRevision?: NonAttribute<Revision | null>;
+  declare updatedBy?: NonAttribute<User | null>;
+}
+
+export function initSite(sequelize: Sequelize) {
+  Site.init(
+    {
+      id: { type: DataTypes.STRING, primaryKey: true },
+      name: { type: DataTypes.STRING, allowNull: false },
+      status: { type: DataTypes.STRING, allowNull: false },
+      latestState: { type: DataTypes.STRING, allowNull: false },
+      approvedRevisionId: { type: DataTypes.INTEGER, allowNull: true },
+      latestRevisionId: { type: DataTypes.INTEGER, allowNull: true },
+      errorCount: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      warningCount: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      updatedById: { type: DataTypes.INTEGER, allowNull: true },
+      createdAt: { type: DataTypes.DATE, allowNull: false },
+      updatedAt: { type: DataTypes.DATE, allowNull: false },
+    },
+    { sequelize, tableName: 'sites', underscored: true, timestamps: false },
+  );
+}
+
+/**
+ * One status per site, so that each of the four is reachable: a site whose latest revision
+ * awaits review is `pending`; otherwise one never approved is `never-approved` (its revisions
+ * were all returned); otherwise the latest revision's state decides.
+ */
+export function deriveSiteStatus(latestState: Site['latestState'], approvedRevisionId: number | null): SiteStatus {
+  if (latestState === 'pending') return 'pending';
+  if (approvedRevisionId === null) return 'never-approved';
+  return latestState;
+}
