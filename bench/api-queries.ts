@@ -14,11 +14,13 @@ const runtime = await openRuntime(config, { logger: pino({ level: 'silent' }) })
 const sequelize = runtime.db.sequelize;
 
 let recording: { sql: string; ms: number }[] | null = null;
-// Sequelize reads these options on every query, so setting them now hooks every later one.
-sequelize.options.benchmark = true;
-sequelize.options.logging = ((sql: string, ms?: number) => {
+// Sequelize reads these options on every query (they are not in its typings), so setting them
+// now hooks every later one.
+const options = (sequelize as unknown as { options: { benchmark: boolean; logging: (sql: string, ms?: number) => void } }).options;
+options.benchmark = true;
+options.logging = (sql, ms) => {
   recording?.push({ sql: sql.replace(/^Executed \([^)]*\): /, ''), ms: ms ?? NaN });
-}) as typeof sequelize.options.logging;
+};
 
 const server = createApp(runtime).listen(0, '127.0.0.1');
 await new Promise((r) => server.once('listening', r));

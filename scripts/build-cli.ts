@@ -1,7 +1,7 @@
 // Bundles the CLI with esbuild into dist/cli/: index.js holds the command definitions (and
 // commander), and each command's action with its heavy dependencies (yaml, the engine,
 // inquirer, chalk) is a chunk that is loaded only when that command runs. bin/weir.js imports
-// dist/cli/index.js. The metafile (dist/cli/meta.json) lets tests check what start-up loads.
+// dist/cli/index.js; dist/cli/check-worker.js is the worker thread of a large `weir check`. The metafile (dist/cli/meta.json) lets tests check what start-up loads.
 import { build } from 'esbuild';
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -13,7 +13,7 @@ const outdir = `${root}dist/cli`;
 rmSync(outdir, { recursive: true, force: true });
 const result = await build({
   absWorkingDir: root,
-  entryPoints: { index: 'cli/index.ts' },
+  entryPoints: { index: 'cli/index.ts', 'check-worker': 'cli/check-worker.ts' },
   outdir,
   bundle: true,
   splitting: true,

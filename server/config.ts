@@ -33,6 +33,8 @@ export interface Config {
 
 export class ConfigError extends Error {}
 
+export const databaseFileOf = (dataDir: string) => path.join(dataDir, 'weir.sqlite');
+
 function integer(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
@@ -83,7 +85,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     port,
     host,
     dataDir,
-    databaseFile: path.join(dataDir, 'weir.sqlite'),
+    databaseFile: databaseFileOf(dataDir),
     uploadsDir: path.join(dataDir, 'uploads'),
     outboxDir: path.join(dataDir, 'outbox'),
     jwtSecret: overrides.jwtSecret ?? loadJwtSecret(env, dataDir),

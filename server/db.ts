@@ -81,8 +81,13 @@ export function createMigrator(sequelize: Sequelize) {
   });
 }
 
+/** The models are classes bound to one Sequelize instance: one open database per process. */
+let openFile: string | null = null;
+
 /** Opens (creating if need be) the database file and brings its schema up to date. */
 export async function openDatabase(file: string): Promise<Database> {
+  if (openFile) throw new Error(`a database is open already in this process (${openFile}): close it first`);
+  openFile = file;
   mkdirSync(path.dirname(file), { recursive: true });
   const sequelize = new Sequelize({
     dialect: 'sqlite',
@@ -94,15 +99,24 @@ export async function openDatabase(file: string): Promise<Database> {
   });
   configureEachConnection(sequelize);
   defineModels(sequelize);
-  // WAL: readers never wait for the writer, and the setting stays with the file.
-  await sequelize.query('PRAGMA journal_mode = WAL');
-  await createMigrator(sequelize).up();
+  try {
+    // WAL: readers never wait for the writer, and the setting stays with the file.
+    await sequelize.query('PRAGMA journal_mode = WAL');
+    await createMigrator(sequelize).up();
+  } catch (err) {
+    openFile = null;
+    await sequelize.close();
+    throw err;
+  }
 
   const queue = createQueue();
   return {
     sequelize,
     file,
     write: (fn) => queue(() => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn)),
-    close: () => sequelize.close(),
+    async close() {
+      await sequelize.close();
+      openFile = null;
+    },
   };
 }

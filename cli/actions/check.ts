@@ -1,12 +1,11 @@
 // `weir check`: every site file through the shared engine, then one report in the chosen format.
-import { checkSite, type Finding, type SiteSummary } from '../../shared/index.ts';
 import { createColour } from '../lib/colour.ts';
 import { EXIT_FINDINGS, EXIT_OK } from '../lib/errors.ts';
 import { explainTable } from '../lib/explain.ts';
 import { fileBlock, summaryLine } from '../lib/print-findings.ts';
 import { toSarif } from '../lib/sarif.ts';
-import { loadSiteFiles } from '../lib/site-files.ts';
-import { siteIdOf } from '../lib/site-id.ts';
+import { checkFiles, type CheckedFile } from '../lib/check-files.ts';
+import { resolveSiteFiles } from '../lib/site-files.ts';
 import { VERSION } from '../lib/version.ts';
 
 export type CheckFormat = 'human' | 'json' | 'sarif';
@@ -15,13 +14,6 @@ export interface CheckOptions {
   format: CheckFormat;
   explain?: boolean;
   color?: boolean;
-}
-
-export interface CheckedFile {
-  path: string;
-  site: string | null;
-  findings: Finding[];
-  summary: SiteSummary | null;
 }
 
 export function countTotals(files: readonly CheckedFile[]) {
@@ -37,12 +29,8 @@ export function countTotals(files: readonly CheckedFile[]) {
 }
 
 export async function runCheck(paths: string[], options: CheckOptions): Promise<void> {
-  const files = await loadSiteFiles(paths);
   // Gather first, print once: one write (and one JSON.stringify) for the whole report.
-  const checked: CheckedFile[] = files.map((file) => {
-    const result = checkSite(file.text);
-    return { path: file.path, site: siteIdOf(result.data), findings: result.findings, summary: result.summary };
-  });
+  const checked = await checkFiles(await resolveSiteFiles(paths));
   const totals = countTotals(checked);
 
   let out: string;

@@ -9,6 +9,7 @@ import {
 } from '../../shared/index.ts';
 import { MODBUS_BAUD_RATES, MAX_UNIT_LOADS } from '../../shared/rules/bus.ts';
 import { QUESTIONS } from './init-flags.ts';
+import { SITE_ID_PATTERN_TEXT } from './site-id.ts';
 import { renderSiteYaml } from './init-yaml.ts';
 
 export interface InitAnswers {
@@ -82,7 +83,7 @@ export interface Field<K extends FieldKey = FieldKey> {
 
 /** Placeholder for facts the installer may not have yet; the file passes, the text says what is missing. */
 export const TO_BE_CONFIRMED = 'to be confirmed';
-export const SITE_ID_PATTERN = /^[a-z0-9][a-z0-9-]{1,62}$/;
+export const SITE_ID_PATTERN = new RegExp(SITE_ID_PATTERN_TEXT);
 /**
  * Standard rated primary currents: 10, 12.5, 15, 20, 25, 30, 40, 50, 60, 75 A and their decimal
  * multiples (IEC 61869-2:2012 cl. 5.201, from memory).
@@ -479,7 +480,7 @@ const describe = (f: Finding) => (f.hint ? `${f.message} (${f.hint})` : f.messag
 export function checkAnswer<K extends FieldKey>(field: Field<K>, value: InitAnswers[K], given: Partial_, schemaRef = '../schemas/site.schema.json'): Checked<InitAnswers[K]> {
   const own = field.check?.(value, given);
   if (own !== undefined && own !== true) return { ok: false, message: own };
-  const concerns = perPhaseConcerns(field as Field, resolveAnswers({ ...given, [field.key]: value }));
+  const concerns = perPhaseConcerns(field as unknown as Field, resolveAnswers({ ...given, [field.key]: value }));
   if (!concerns) return { ok: true, value, notes: [] };
   const draft = renderSiteYaml(buildSite({ ...given, [field.key]: value }), { schemaRef });
   const findings = checkSite(draft).findings.filter((f) => concerns.test(f.path));

@@ -21,7 +21,7 @@ export interface ReadSiteFile extends SiteFile {
 
 const display = (p: string) => p.split(path.sep).join('/');
 
-function ioMessage(err: unknown): string {
+export function ioMessage(err: unknown): string {
   const code = (err as NodeJS.ErrnoException)?.code;
   switch (code) {
     case 'ENOENT': return 'no such file or folder';

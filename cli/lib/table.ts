@@ -6,7 +6,7 @@ import type { Colour } from './colour.ts';
 export function makeTable(head: string[], c: Colour, options: { colAligns?: ('left' | 'right' | 'center')[] } = {}) {
   return new Table({
     head: head.map((h) => c.bold(h)),
-    style: { head: [], border: [], 'padding-left': 1, 'padding-right': 1 },
+    style: { head: [], border: [], 'padding-left': 1, 'padding-right': 1, compact: true },
     ...(options.colAligns ? { colAligns: options.colAligns } : {}),
     wordWrap: true,
   });

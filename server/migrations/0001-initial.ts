@@ -1,7 +1,7 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
 
 // Columns are snake_case; the models map them with `underscored: true`.
-const { INTEGER, STRING, TEXT, BOOLEAN, DATE } = DataTypes;
+const { INTEGER, STRING, TEXT, BOOLEAN, DATE, JSON } = DataTypes;
 const id = { type: INTEGER, primaryKey: true, autoIncrement: true, allowNull: false };
 const ref = (table: string, allowNull = false, onDelete = 'RESTRICT') => ({ type: INTEGER, allowNull, references: { model: table, key: 'id' }, onDelete });
 
@@ -46,9 +46,10 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     number: { type: INTEGER, allowNull: false },
     yaml: { type: TEXT, allowNull: false },
     sha256: { type: STRING(64), allowNull: false },
-    document: { type: TEXT, allowNull: false },
-    findings: { type: TEXT, allowNull: false },
-    summary: { type: TEXT, allowNull: true },
+    // Declared JSON (stored as text): Sequelize's SQLite dialect parses by the declared type.
+    document: { type: JSON, allowNull: false },
+    findings: { type: JSON, allowNull: false },
+    summary: { type: JSON, allowNull: true },
     error_count: { type: INTEGER, allowNull: false },
     warning_count: { type: INTEGER, allowNull: false },
     info_count: { type: INTEGER, allowNull: false },

@@ -109,6 +109,25 @@ describe('schema findings carry 1-based line and column', () => {
     expect(finding.line).toBe(pos(text, '{ id: ct-1').line);
   });
 
+  it('a missing key inside a flow mapping points at the mapping\'s key (`modbus:`)', () => {
+    const text = SITE.replace(', stopBits: 1 }', ' }');
+    const findings = parseSite(text).findings;
+    expect(findings).toHaveLength(1);
+    expect(findings[0]).toMatchObject({ ruleId: 'schema', path: 'meter.modbus.stopBits', ...pos(text, 'modbus:') });
+  });
+
+  it('a missing top-level key points at the start of the document, after the leading comment', () => {
+    const text = SITE.replace('weir: 1\n', '');
+    const [finding] = parseSite(text).findings;
+    expect(finding).toMatchObject({ ruleId: 'schema', path: 'weir', line: 2, column: 1 });
+  });
+
+  it('an enum value in a block list item points at the value', () => {
+    const text = SITE.replace('phase: all }', 'phase: L4 }');
+    const [finding] = parseSite(text).findings;
+    expect(finding).toMatchObject({ ruleId: 'schema', path: 'generation[0].phase', ...pos(text, 'L4') });
+  });
+
   it('a wrong type points at the value', () => {
     const text = SITE.replace('lengthM: 25', 'lengthM: long');
     const [finding] = parseSite(text).findings;

@@ -86,6 +86,12 @@ function closest(word: string, candidates: string[]): string | undefined {
   return bestDistance <= Math.max(2, Math.floor(word.length / 3)) ? best : undefined;
 }
 
+function valueAt(data: unknown, at: PathSegment[]): unknown {
+  let cursor = data;
+  for (const s of at) cursor = cursor && typeof cursor === 'object' ? (cursor as Record<string, unknown>)[s as string] : undefined;
+  return cursor;
+}
+
 const show = (v: unknown) => (typeof v === 'string' ? v : JSON.stringify(v));
 
 function schemaFinding(error: AjvError, data: unknown, locate: Locator): Finding | null {
@@ -112,8 +118,17 @@ function schemaFinding(error: AjvError, data: unknown, locate: Locator): Finding
       };
     }
     case 'enum': {
-      const allowed = (error.params.allowedValues as unknown[]).map(show).join(', ');
-      return { ...base, message: `${formatPath(at)} must be one of: ${allowed}`, path: formatPath(at), ...locate(at) };
+      const values = error.params.allowedValues as unknown[];
+      const allowed = values.map(show).join(', ');
+      const given = valueAt(data, at);
+      const finding: Finding = { ...base, message: `${formatPath(at)} must be one of: ${allowed}`, path: formatPath(at), ...locate(at) };
+      // YAML reads 0.5 as a number; the class names are strings.
+      if (typeof given === 'number' && values.includes(String(given))) finding.hint = `write it in quotes: "${given}"`;
+      else if (typeof given === 'string') {
+        const suggestion = closest(given, values.filter((v): v is string => typeof v === 'string'));
+        if (suggestion) finding.hint = `did you mean \`${suggestion}\`?`;
+      }
+      return finding;
     }
     case 'const':
       return { ...base, message: `${formatPath(at) || 'value'} must be ${show(error.params.allowedValue)}`, path: formatPath(at), ...locate(at) };

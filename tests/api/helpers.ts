@@ -25,7 +25,7 @@ export interface TestWeir {
 export async function startWeir(env: NodeJS.ProcessEnv = {}, overrides: Partial<Config> = {}): Promise<TestWeir> {
   const dataDir = await mkdtemp(path.join(os.tmpdir(), 'weir-api-'));
   const config = loadConfig({ WEIR_LOGIN_RATE_LIMIT: '1000', ...env }, { dataDir, logLevel: 'silent', ...overrides });
-  const runtime = await openRuntime(config, { logger: pino({ level: 'silent' }) });
+  const runtime = await openRuntime(config, { logger: pino({ level: process.env.WEIR_TEST_LOG ?? 'silent' }) });
   const app = createApp(runtime);
   return {
     app,

@@ -1,33 +1,11 @@
-import { createBrowserRouter, redirect, type LoaderFunctionArgs } from 'react-router-dom';
+import { createBrowserRouter, redirect } from 'react-router-dom';
 import { RouteError } from '../components/route-error.tsx';
 import { Loading } from '../components/feedback.tsx';
-import { ApiError, setUnauthorizedHandler } from '../lib/api-client.ts';
+import { setUnauthorizedHandler } from '../lib/api-client.ts';
 import { queryClient } from '../lib/query-client.ts';
-import { getSession, setSession, signInPath, updateSessionUser } from '../lib/session.ts';
-import { meQueryOptions } from '../features/auth/api/get-me.ts';
+import { signInPath } from '../lib/session.ts';
+import { requireSession } from './require-session.ts';
 import { AppLayout } from './routes/app-layout.tsx';
-
-function pathOf(request: Request): string {
-  const url = new URL(request.url);
-  return `${url.pathname}${url.search}`;
-}
-
-/** Every page but sign-in: a session is needed, and it is checked with GET /api/me once per load. */
-async function requireSession({ request }: LoaderFunctionArgs) {
-  if (!getSession()) throw redirect(signInPath(pathOf(request)));
-  try {
-    const { user } = await queryClient.ensureQueryData(meQueryOptions());
-    updateSessionUser(user);
-  } catch (error) {
-    if (error instanceof ApiError && error.status === 401) {
-      setSession(null);
-      queryClient.clear();
-      throw redirect(signInPath(pathOf(request), 'expired'));
-    }
-    throw error;
-  }
-  return null;
-}
 
 // Each page is its own chunk (React Router `lazy`), so the first load carries only the shell.
 export const router = createBrowserRouter([
@@ -39,7 +17,10 @@ export const router = createBrowserRouter([
   {
     path: '/',
     id: 'app',
-    loader: requireSession,
+    loader: async (args) => {
+      await requireSession(args);
+      return null;
+    },
     Component: AppLayout,
     ErrorBoundary: RouteError,
     HydrateFallback: () => <Loading />,

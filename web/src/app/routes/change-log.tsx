@@ -6,7 +6,8 @@ import { PageHeader } from '../../components/page-header.tsx';
 import { Pagination } from '../../components/pagination.tsx';
 import { RouteError } from '../../components/route-error.tsx';
 import { queryClient } from '../../lib/query-client.ts';
-import { CAN, getSession } from '../../lib/session.ts';
+import { CAN } from '../../lib/session.ts';
+import { requireSession } from '../require-session.ts';
 import { AUDIT_FILTER_KEYS, auditParamsFrom, auditQueryOptions, useAudit, type AuditFilters } from '../../features/audit/api/get-audit.ts';
 import { useExportAuditCsv } from '../../features/audit/api/export-audit-csv.ts';
 import { AuditFiltersForm } from '../../features/audit/components/audit-filters.tsx';
@@ -15,7 +16,8 @@ import { ChainStatus } from '../../features/audit/components/chain-status.tsx';
 import type { LoaderFunctionArgs } from 'react-router-dom';
 
 export async function loader({ request }: LoaderFunctionArgs) {
-  if (!CAN.readChangeLog(getSession()?.user.role)) {
+  const user = await requireSession({ request });
+  if (!CAN.readChangeLog(user.role)) {
     throw new Response('The change log is for auditors, lead engineers and admins.', { status: 403 });
   }
   await queryClient.ensureQueryData(auditQueryOptions(auditParamsFrom(new URL(request.url).searchParams)));

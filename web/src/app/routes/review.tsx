@@ -8,6 +8,7 @@ import { notFoundIf404 } from '../../lib/api-client.ts';
 import { formatDateTime } from '../../lib/format.ts';
 import { queryClient } from '../../lib/query-client.ts';
 import { CAN, useSession } from '../../lib/session.ts';
+import { requireSession } from '../require-session.ts';
 import { revisionQueryOptions, useRevision } from '../../features/revisions/api/get-revision.ts';
 import { DiffTable } from '../../features/revisions/components/diff-table.tsx';
 import { FindingsList } from '../../features/revisions/components/findings-list.tsx';
@@ -20,7 +21,8 @@ import { DiagramFaultList, SiteDiagram } from '../../features/sites/components/s
 import { readSite } from '../../features/sites/lib/read-site.ts';
 import { useQuery } from '@tanstack/react-query';
 
-export async function loader({ params }: LoaderFunctionArgs) {
+export async function loader({ params, request }: LoaderFunctionArgs) {
+  await requireSession({ request });
   const { revision } = await queryClient.ensureQueryData(revisionQueryOptions(params.revisionId!)).catch(notFoundIf404);
   await Promise.all([
     queryClient.ensureQueryData(siteQueryOptions(revision.siteId)),
@@ -60,7 +62,7 @@ export function Component() {
               <FindingsList findings={revision.findings ?? []} onSelectLine={setSelectedLine} selectedLine={selectedLine} />
             </Section>
             <Section title="Changes" id="changes">
-              <DiffTable changes={revision.diff ?? []} against={against} />
+              <DiffTable changes={revision.diff ?? []} against={against} collapse={!base} />
             </Section>
             <Section title="Decision" id="decision">
               {CAN.review(role) ? (

@@ -8,6 +8,7 @@ import { SafetyCaution } from '../../components/safety-caution.tsx';
 import { notFoundIf404 } from '../../lib/api-client.ts';
 import { queryClient } from '../../lib/query-client.ts';
 import { CAN, useSession } from '../../lib/session.ts';
+import { requireSession } from '../require-session.ts';
 import type { Revision, SiteDetail } from '../../types/api.ts';
 import { revisionQueryOptions, useRevision } from '../../features/revisions/api/get-revision.ts';
 import { siteQueryOptions, useSite } from '../../features/sites/api/get-site.ts';
@@ -25,6 +26,7 @@ function shownRevision(detail: SiteDetail, view: string | null): Revision | null
 }
 
 export async function loader({ params, request }: LoaderFunctionArgs) {
+  await requireSession({ request });
   const siteId = params.siteId!;
   const detail = await queryClient.ensureQueryData(siteQueryOptions(siteId)).catch(notFoundIf404);
   const shown = shownRevision(detail, new URL(request.url).searchParams.get('view'));

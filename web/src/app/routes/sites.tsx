@@ -5,11 +5,13 @@ import { PageHeader } from '../../components/page-header.tsx';
 import { Pagination } from '../../components/pagination.tsx';
 import { RouteError } from '../../components/route-error.tsx';
 import { queryClient } from '../../lib/query-client.ts';
+import { requireSession } from '../require-session.ts';
 import { sitesParamsFrom, sitesQueryOptions, useSites, type SitesParams } from '../../features/sites/api/get-sites.ts';
 import { SitesFilters } from '../../features/sites/components/sites-filters.tsx';
 import { SitesTable } from '../../features/sites/components/sites-table.tsx';
 
 export async function loader({ request }: LoaderFunctionArgs) {
+  await requireSession({ request });
   await queryClient.ensureQueryData(sitesQueryOptions(sitesParamsFrom(new URL(request.url).searchParams)));
   return null;
 }

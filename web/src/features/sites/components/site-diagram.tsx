@@ -21,6 +21,9 @@ const GEN_W = 118;
 const GEN_GAP = 16;
 const BOX_H = 104;
 
+/** A white outline behind text drawn over lines, so it stays readable. */
+const HALO = { paintOrder: 'stroke', stroke: 'white', strokeWidth: 4, strokeLinejoin: 'round' } as const;
+
 const SEV_STROKE: Record<Severity, string> = { error: 'stroke-sev-error', warning: 'stroke-sev-warning-line', info: 'stroke-sev-info' };
 const SEV_FILL: Record<Severity, string> = { error: 'fill-sev-error', warning: 'fill-sev-warning', info: 'fill-sev-info' };
 
@@ -108,8 +111,8 @@ export function SiteDiagram({ site, findings, title }: SiteDiagramProps) {
         return (
           <g key={c} data-conductor={c}>
             <line x1={100} y1={y} x2={width - 12} y2={y} className={c === 'N' ? 'stroke-ink-500' : 'stroke-ink-800'} strokeWidth={c === 'N' ? 2 : 3} strokeDasharray={inService ? undefined : '3 5'} />
-            <text x={LINE_START - 8} y={y - 7} textAnchor="end" className="fill-ink-900 text-[13px] font-semibold">{c}</text>
-            {!inService && <text x={LINE_START + 4} y={y - 7} className="fill-sev-error text-[11px]">not a conductor of this service</text>}
+            <text x={LINE_START - 12} y={y - 7} className="fill-ink-900 text-[13px] font-semibold" {...HALO}>{c}</text>
+            {!inService && <text x={LINE_START + 20} y={y - 7} className="fill-sev-error text-[11px]" {...HALO}>not a conductor of this service</text>}
           </g>
         );
       })}
@@ -152,7 +155,7 @@ export function SiteDiagram({ site, findings, title }: SiteDiagramProps) {
           <title>{`No CT measures ${c}: the gateway cannot see export on that conductor (meter-ct-missing)`}</title>
           <circle cx={MISSING_X} cy={rowY(c)} r={15} className="fill-sev-error-bg stroke-sev-error" strokeWidth={2} strokeDasharray="4 3" />
           <text x={MISSING_X} y={rowY(c) + 4} textAnchor="middle" className="fill-sev-error text-[11px] font-bold">?</text>
-          <text x={MISSING_X} y={rowY(c) + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold">no CT</text>
+          <text x={MISSING_X} y={rowY(c) + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" {...HALO}>no CT</text>
         </g>
       ))}
 
@@ -189,18 +192,18 @@ export function SiteDiagram({ site, findings, title }: SiteDiagramProps) {
               <circle cx={x} cy={y} r={15} className={ringClass} strokeWidth={faulty ? 3 : 2} fillOpacity={faulty ? 1 : 0.9} />
               {/* The arrow inside the ring shows which way the CT faces */}
               <path d={reversed ? `M${x + 7} ${y - 6}L${x - 7} ${y}L${x + 7} ${y + 6}z` : `M${x - 7} ${y - 6}L${x + 7} ${y}L${x - 7} ${y + 6}z`} className={reversed ? 'fill-sev-error' : 'fill-ink-800'} />
-              <text x={x} y={y - 21} textAnchor="middle" className="fill-ink-900 text-[11px] font-semibold">{input.ct}</text>
+              <text x={x} y={y - 21} textAnchor="middle" className="fill-ink-900 text-[11px] font-semibold" {...HALO}>{input.ct}</text>
             </g>
             {marks.faults.has('wrong-phase') && (
-              <text x={x} y={y + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="wrong-phase">
+              <text x={x} y={y + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="wrong-phase" {...HALO}>
                 {`✕ ${t} on ${input.conductor}, V${t.slice(1)} on ${voltage ?? '—'}`}
               </text>
             )}
             {marks.faults.has('reversed') && (
-              <text x={x} y={y + (marks.faults.has('wrong-phase') ? 43 : 30)} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="reversed">⇄ reversed</text>
+              <text x={x} y={y + (marks.faults.has('wrong-phase') ? 43 : 30)} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="reversed" {...HALO}>⇄ reversed</text>
             )}
             {marks.faults.has('unknown-ct') && (
-              <text x={x} y={y + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="unknown-ct">? not in cts</text>
+              <text x={x} y={y + 30} textAnchor="middle" className="fill-sev-error text-[11px] font-semibold" data-fault-label="unknown-ct" {...HALO}>? not in cts</text>
             )}
             {terminalLabel}
           </g>

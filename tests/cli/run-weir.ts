@@ -1,0 +1,53 @@
+// Runs the built CLI (bin/weir.js -> dist/cli) as a user would, with execa, in a clean
+// environment: no colour forcing, no server or token from the caller's shell, and a private
+// XDG config folder so no test touches a real sign-in.
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { execa, type Result } from 'execa';
+
+export const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+export const WEIR = path.join(ROOT, 'bin', 'weir.js');
+export const EXAMPLES = path.join(ROOT, 'examples');
+
+export function assertBuilt(): void {
+  if (!existsSync(path.join(ROOT, 'dist', 'cli', 'index.js'))) {
+    throw new Error('the CLI is not built: run `npm run build:cli` first');
+  }
+}
+
+export interface RunOptions {
+  cwd?: string;
+  env?: Record<string, string | undefined>;
+  input?: string;
+}
+
+const CLEARED = ['WEIR_SERVER', 'WEIR_TOKEN', 'FORCE_COLOR', 'NO_COLOR', 'WEIR_CHECK_THREADS', 'WEIR_DEBUG'];
+
+export function weir(args: string[], options: RunOptions = {}): Promise<Result> {
+  const env: Record<string, string | undefined> = {};
+  for (const key of CLEARED) env[key] = undefined;
+  return execa('node', [WEIR, ...args], {
+    cwd: options.cwd ?? ROOT,
+    env: { ...env, XDG_CONFIG_HOME: options.env?.XDG_CONFIG_HOME ?? sharedConfigHome(), ...options.env },
+    extendEnv: true,
+    reject: false,
+    input: options.input,
+    stdin: options.input === undefined ? 'ignore' : 'pipe',
+    timeout: 60_000,
+  }) as unknown as Promise<Result>;
+}
+
+let configHome: string | null = null;
+function sharedConfigHome(): string {
+  configHome ??= mkdtempSync(path.join(os.tmpdir(), 'weir-cli-config-'));
+  return configHome;
+}
+
+export function tempDir(prefix = 'weir-cli-'): { dir: string; remove: () => void } {
+  const dir = mkdtempSync(path.join(os.tmpdir(), prefix));
+  return { dir, remove: () => rmSync(dir, { recursive: true, force: true }) };
+}
+
+export const ANSI = /\u001b\[[0-9;]*m/;
