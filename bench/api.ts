@@ -151,29 +151,38 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
     await api?.stop();
   }
 
-  notes.push(...(await queryPlans(dataDir, revisions)));
+  const planned = generateSites(1, seed + 3, bases)[0];
+  notes.push(...(await queryPlans(dataDir, revisions, planned.text.replace(`id: ${planned.id}`, `id: ${planned.id}-plan`))));
   return { figures, notes };
 }
 
 interface Recorded {
   path: string;
   status: number;
+  totalMs: number;
   statements: { sql: string; ms: number; plan: string[] }[];
 }
 
-/** The SQL behind the list and revision routes, with the plan SQLite chose for each. */
-async function queryPlans(dataDir: string, revisions: number): Promise<string[]> {
-  const res = await run(process.execPath, ['--import', 'tsx', join(repoRoot, 'bench/api-queries.ts'), dataDir, String(Math.ceil(revisions / 2)), BENCH_USERS[3].email, BENCH_PASSWORD], { timeoutMs: 120_000, headBytes: 16 * 1024 * 1024 });
+const indexesOf = (plan: string[]) => [...new Set(plan.flatMap((p) => [...p.matchAll(/USING (?:COVERING )?INDEX (\S+)|USING (INTEGER PRIMARY KEY)/g)].map((m) => m[1] ?? m[2])))];
+
+/** The SQL behind the list, revision and push routes, with the plan SQLite chose for each read. */
+async function queryPlans(dataDir: string, revisions: number, pushText: string): Promise<string[]> {
+  const pushFile = join(outDir, 'api/push-one.yaml');
+  writeFileSync(pushFile, pushText);
+  const res = await run(process.execPath, ['--import', 'tsx', join(repoRoot, 'bench/api-queries.ts'), dataDir, String(Math.ceil(revisions / 2)), BENCH_USERS[3].email, BENCH_PASSWORD, pushFile], { timeoutMs: 120_000, headBytes: 16 * 1024 * 1024 });
   if (res.code !== 0) return [`(query plans failed: exit ${res.code} ${res.stderrHead.slice(0, 500)})`];
-  const out: string[] = ['Query plans (EXPLAIN QUERY PLAN of every statement the route sent, with its time):'];
+  const out: string[] = ['Statements per request, each with its time (Sequelize benchmark) and, for reads, its EXPLAIN QUERY PLAN:'];
   for (const r of JSON.parse(res.stdoutHead) as Recorded[]) {
-    out.push(`  GET ${r.path} → ${r.status}`);
+    const dbMs = r.statements.reduce((a, s) => a + (Number.isFinite(s.ms) ? s.ms : 0), 0);
+    out.push(`  ${r.path} → ${r.status}: ${r.statements.length} statements, ${dbMs} ms in them, ${r.totalMs.toFixed(0)} ms for the request`);
+    const long = !r.path.startsWith('POST');
     for (const s of r.statements) {
-      out.push(`    [${Number.isFinite(s.ms) ? `${s.ms} ms` : '?'}] ${s.sql.length > 400 ? `${s.sql.slice(0, 400)}…` : s.sql}`);
+      const cut = long ? 400 : 140;
+      out.push(`    [${Number.isFinite(s.ms) ? `${s.ms} ms` : '?'}] ${s.sql.length > cut ? `${s.sql.slice(0, cut)}…` : s.sql}`);
+      if (!long) continue;
       for (const p of s.plan) out.push(`        ${p}`);
-      const indexes = [...new Set(s.plan.flatMap((p) => [...p.matchAll(/USING (?:COVERING )?INDEX (\S+)|USING (INTEGER PRIMARY KEY)/g)].map((m) => m[1] ?? m[2])))];
       const scans = s.plan.filter((p) => /^SCAN /.test(p) && !/USING/.test(p));
-      if (s.plan.length) out.push(`        → indexes: ${indexes.join(', ') || 'none'}${scans.length ? `; full scans: ${scans.map((p) => p.replace(/^SCAN /, '')).join(', ')}` : ''}`);
+      if (s.plan.length) out.push(`        → indexes: ${indexesOf(s.plan).join(', ') || 'none'}${scans.length ? `; full scans: ${scans.map((p) => p.replace(/^SCAN /, '')).join(', ')}` : ''}`);
     }
   }
   return out;

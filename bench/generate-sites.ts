@@ -232,10 +232,9 @@ function quoted(value: string) {
   return s;
 }
 
-function vary(doc: Document, rng: Rng, id: string, index: number) {
-  const first = rng.pick(NAME_FIRST);
+function vary(doc: Document, rng: Rng, id: string, name: string) {
   doc.setIn(['site', 'id'], id);
-  doc.setIn(['site', 'name'], `${first} ${rng.pick(NAME_SECOND)} ${index + 1}`);
+  doc.setIn(['site', 'name'], name);
   if (doc.hasIn(['site', 'address']) || rng.chance(0.5)) doc.setIn(['site', 'address'], `${rng.int(1, 240)} ${rng.pick(STREET)}`);
 
   doc.setIn(['agreement', 'reference'], `NOA-${rng.int(1000, 99999)}`);
@@ -258,9 +257,12 @@ function vary(doc: Document, rng: Rng, id: string, index: number) {
   doc.setIn(['gateway', 'serial'], `GW-${rng.int(1000, 9999)}`);
   setNumber(doc, ['gateway', 'bus', 'lengthM'], rng.int(3, 400));
 
+  // One inverter model per site and about as many on each group, as installers balance phases.
+  const units = rng.int(2, 12);
+  const unitAcKw = rng.pick([0.3, 0.4, 0.6, 0.8, 1.2]);
   for (let i = 0; i < seqLength(doc, ['generation']); i++) {
-    setNumber(doc, ['generation', i, 'units'], rng.int(1, 14));
-    setNumber(doc, ['generation', i, 'unitAcKw'], rng.pick([0.3, 0.4, 0.6, 0.8, 1.2]));
+    setNumber(doc, ['generation', i, 'units'], Math.max(1, units + rng.int(-1, 1)));
+    setNumber(doc, ['generation', i, 'unitAcKw'], unitAcKw);
   }
 
   const limit = Math.min(newAgreed, getNumber(doc, ['export', 'limitKw']) ?? newAgreed);
@@ -306,9 +308,9 @@ export function generateSites(count: number, seed: number, bases: BaseSite[] = l
     const rng = createRng(fileSeed(seed, index));
     const base = parsed[Math.floor(rng.next() * parsed.length)];
     const doc = base.clone();
-    const baseId = String(doc.getIn(['site', 'id']) ?? 'site').slice(0, 40).replace(/-+$/, '');
-    const id = `${baseId}-${seed.toString(36)}-${index.toString(36).padStart(4, '0')}`;
-    vary(doc, rng, id, index);
+    const words = [rng.pick(NAME_FIRST), rng.pick(NAME_SECOND)];
+    const id = `${words.join('-').toLowerCase()}-${seed.toString(36)}-${index.toString(36).padStart(4, '0')}`;
+    vary(doc, rng, id, `${words.join(' ')} ${index + 1}`);
     if (!isMap(doc.contents)) throw new Error('a base site file is not a mapping');
     out.push({ file: `${id}.yaml`, id, text: doc.toString({ lineWidth: 0 }) });
   }

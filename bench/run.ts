@@ -1,6 +1,7 @@
-// `npm run bench [-- --quick] [-- --only check,engine,...]`: every benchmark, then one table of
-// every figure with its budget and PASS/OVER. Timing never fails the run: it exits 0 either way
-// (2 only for a bad option). The table also goes to bench/.out/results.{md,json}.
+// `npm run bench [-- --quick] [--no-build] [--only check,engine,...]`: builds what the benches
+// time (the CLI, the server, the reviewer), runs every benchmark, then prints one table of every
+// figure with its budget and PASS/OVER. Timing never fails the run: it exits 0 either way (2 only
+// for a bad option). The table also goes to bench/.out/results.{md,json}.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { cpus } from 'node:os';
@@ -9,15 +10,17 @@ import { benchCheckThroughput } from './check-throughput.ts';
 import { benchColdStart } from './cold-start.ts';
 import { benchEngine } from './engine.ts';
 import { loadBases } from './generate-sites.ts';
-import { outDir } from './lib/processes.ts';
+import { outDir, run } from './lib/processes.ts';
 import { renderMarkdown, renderTable, type Figure } from './lib/report.ts';
 import { benchReviewer } from './reviewer.ts';
 
+const npm = process.platform === 'win32' ? 'npm.cmd' : 'npm';
 const BENCHES = ['check', 'cold-start', 'engine', 'api', 'reviewer'] as const;
 type BenchName = (typeof BENCHES)[number];
 
 function parseArgs(argv: string[]) {
   const quick = argv.includes('--quick');
+  const build = !argv.includes('--no-build');
   let only: BenchName[] = [...BENCHES];
   const i = argv.indexOf('--only');
   if (i >= 0) {
@@ -26,13 +29,32 @@ function parseArgs(argv: string[]) {
     if (unknown.length || wanted.length === 0) return { error: `--only takes a comma-separated list of: ${BENCHES.join(', ')}` };
     only = wanted as BenchName[];
   }
-  const known = new Set(['--quick', '--only', ...(i >= 0 ? [argv[i + 1]] : [])]);
+  const known = new Set(['--quick', '--no-build', '--only', ...(i >= 0 ? [argv[i + 1]] : [])]);
   const stray = argv.filter((a) => !known.has(a));
-  if (stray.length) return { error: `unknown option ${stray[0]}; use --quick and/or --only ${BENCHES.join(',')}` };
-  return { quick, only };
+  if (stray.length) return { error: `unknown option ${stray[0]}; use --quick, --no-build and/or --only ${BENCHES.join(',')}` };
+  return { quick, build, only };
 }
 
 const SEED = 20_261_120;
+
+/** What each bench times, and the npm script that builds it. */
+const BUILDS: [script: string, needed: BenchName[]][] = [
+  ['build:cli', ['check', 'cold-start']],
+  ['build:server', ['api', 'reviewer']],
+  ['build:web', ['reviewer']],
+];
+
+/** Builds what the chosen benches time, so they never time a stale dist/. A failed build is reported, not fatal. */
+async function buildAll(only: BenchName[]): Promise<string[]> {
+  const notes: string[] = [];
+  for (const [script, needed] of BUILDS) {
+    if (!needed.some((b) => only.includes(b))) continue;
+    const t0 = Date.now();
+    const res = await run(npm, ['run', '-s', script]);
+    notes.push(res.code === 0 ? `built: npm run ${script} (${((Date.now() - t0) / 1000).toFixed(0)} s)` : `npm run ${script} failed (exit ${res.code}); timing what is in dist/: ${(res.stderrHead || res.stdoutHead).trim().split('\n').slice(-3).join(' | ')}`);
+  }
+  return notes;
+}
 
 async function main() {
   const args = parseArgs(process.argv.slice(2));
@@ -41,14 +63,16 @@ async function main() {
     process.exitCode = 2;
     return;
   }
-  const { quick, only } = args;
+  const { quick, build, only } = args;
   mkdirSync(outDir, { recursive: true });
+  const buildNotes = build ? await buildAll(only) : ['not rebuilt (--no-build): timing what is in dist/'];
   const bases = loadBases();
   const started = Date.now();
   console.log(`weir benchmarks${quick ? ' (quick)' : ''}: node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? 'cpu'}; ${bases.length} base site files (${bases.map((b) => b.name).join(', ')})`);
 
   const figures: Figure[] = [];
-  const extra: string[] = [];
+  const extra: string[] = [...buildNotes];
+  for (const n of buildNotes) console.log(n);
   const step = async (name: BenchName, fn: () => Promise<Figure[]>) => {
     if (!only.includes(name)) return;
     const t0 = Date.now();

@@ -4,16 +4,23 @@ import { build } from 'esbuild';
 import { fileURLToPath } from 'node:url';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
-await build({
-  absWorkingDir: root,
-  entryPoints: ['server/main.ts'],
-  outfile: 'dist/server.js',
-  bundle: true,
-  platform: 'node',
-  format: 'esm',
-  target: 'node20',
-  packages: 'external',
-  sourcemap: true,
-  logLevel: 'warning',
-});
-console.log('server built: dist/server.js');
+
+export async function buildServer(outfile = 'dist/server.js') {
+  await build({
+    absWorkingDir: root,
+    entryPoints: ['server/main.ts'],
+    outfile,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    packages: 'external',
+    sourcemap: true,
+    logLevel: 'warning',
+  });
+  return outfile;
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  console.log(`server built: ${await buildServer()}`);
+}

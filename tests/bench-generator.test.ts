@@ -42,15 +42,18 @@ describe('bench site generator', () => {
   it('when generating many files, then the rules find a spread of different things', () => {
     const ruleIds = new Set<string>();
     let clean = 0;
-    for (const s of generateSites(300, 9, bases)) {
+    const sites = generateSites(300, 9, bases);
+    for (const s of sites) {
       const { findings } = checkSite(s.text);
       if (findings.every((f) => f.severity !== 'error')) clean++;
       for (const f of findings) ruleIds.add(f.ruleId);
     }
     // The generator plants a reversed CT, a limit typed in W, a long bus, a baud mismatch and a
-    // slow fail-safe in a few files each; most files stay free of errors.
+    // slow fail-safe in a few files each. Some bases (the demo fleet's faulty examples) carry a
+    // fault of their own, so about half the files have an error; the rest must stay clean, or
+    // the rules would not be timed on good sites at all.
     for (const id of ['ct-arrow-toward-grid', 'export-limit-over-agreement', 'bus-too-long', 'bus-baud-mismatch', 'failsafe-too-slow']) expect(ruleIds, id).toContain(id);
-    expect(clean).toBeGreaterThan(150);
+    expect(clean).toBeGreaterThan(sites.length / 3);
   });
 
   it('when seeded, then the random stream repeats and stays in [0, 1)', () => {

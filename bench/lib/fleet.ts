@@ -71,6 +71,7 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
   const dir = join(outDir, 'fleet', fleetKey(sites, revisions, seed, bases));
   const file = join(dir, 'weir.sqlite');
   if (existsSync(join(dir, 'complete'))) return { file, sites, revisions, seconds: 0, cached: true };
+  pruneFleets(join(outDir, 'fleet'), 2);
   rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
   const t0 = performance.now();
@@ -115,10 +116,13 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
     const summary = check.summary ? JSON.stringify(check.summary) : null;
 
     let approvedId: number | null = null;
-    let at = start + i * 60_000;
+    // Histories start anywhere in a year and last days to months, so the newest changes are a mix.
+    let at = start + rng.int(0, 365 * 24) * 3_600_000;
     const firstAt = at;
     let state = 'pending';
-    let lastAuthor = installers[0];
+    // Who changed the site last, and when: the author of a pending revision, else its reviewer.
+    let lastActor = installers[0];
+    let lastAt = at;
     for (let n = 1; n <= count; n++) {
       revisionId++;
       at += rng.int(1, 72) * 3_600_000;
@@ -126,6 +130,8 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
       const last = n === count;
       const roll = rng.next();
       state = last ? (roll < 0.4 ? 'pending' : roll < 0.75 ? 'approved' : 'returned') : roll < 0.5 ? 'superseded' : roll < 0.8 ? 'approved' : 'returned';
+      // As the server has it: a revision with an error finding cannot be approved.
+      if (state === 'approved' && check.counts.error > 0) state = 'returned';
       const decided = state === 'approved' || state === 'returned';
       const decidedAt = state === 'pending' ? null : sqlDate(new Date(at + 3_600_000));
       const reviewer = leads.find((l) => l !== author) ?? leads[0];
@@ -137,12 +143,13 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
       );
       if (decided) await insertReview.run(revisionId, reviewer, state === 'approved' ? 'approve' : 'return', state === 'returned' ? 'the CT leads need re-measuring' : null, decidedAt);
       if (state === 'approved') approvedId = revisionId;
-      lastAuthor = author;
+      lastActor = decided ? reviewer : author;
+      lastAt = decided ? at + 3_600_000 : at;
     }
     const latestState = state as 'pending' | 'approved' | 'returned';
     await insertSite.run(
       g.id, name, deriveSiteStatus(latestState, approvedId), latestState, approvedId, revisionId,
-      check.counts.error, check.counts.warning, latestState === 'pending' ? lastAuthor : leads[0], sqlDate(new Date(firstAt)), sqlDate(new Date(at + 3_600_000)),
+      check.counts.error, check.counts.warning, lastActor, sqlDate(new Date(firstAt)), sqlDate(new Date(lastAt)),
     );
   }
   await Promise.all([insertSite.finalize(), insertRevision.finalize(), insertReview.finalize()]);
@@ -154,6 +161,13 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
   log(`seeded ${sites} sites and ${revisions} revisions in ${seconds.toFixed(1)} s (${(statSync(file).size / 1e6).toFixed(0)} MB)`);
   mkdirSync(join(dir, 'complete'));
   return { file, sites, revisions, seconds, cached: false };
+}
+
+/** A full-size fleet is most of a gigabyte: keep only the `keep` newest besides the one being made. */
+function pruneFleets(root: string, keep: number) {
+  if (!existsSync(root)) return;
+  const dirs = readdirSync(root).map((name) => join(root, name)).sort((a, b) => statSync(b).mtimeMs - statSync(a).mtimeMs);
+  for (const d of dirs.slice(keep)) rmSync(d, { recursive: true, force: true });
 }
 
 /** Revisions per site: around the mean, 1 to 2×mean−1, in pairs, so that the total is exact. */

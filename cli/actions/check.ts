@@ -13,6 +13,8 @@ export type CheckFormat = 'human' | 'json' | 'sarif';
 export interface CheckOptions {
   format: CheckFormat;
   explain?: boolean;
+  /** false with --no-cache. */
+  cache?: boolean;
   color?: boolean;
 }
 
@@ -30,7 +32,7 @@ export function countTotals(files: readonly CheckedFile[]) {
 
 export async function runCheck(paths: string[], options: CheckOptions): Promise<void> {
   // Gather first, print once: one write (and one JSON.stringify) for the whole report.
-  const checked = await checkFiles(await resolveSiteFiles(paths));
+  const checked = await checkFiles(await resolveSiteFiles(paths), { cache: options.cache !== false && !options.explain });
   const totals = countTotals(checked);
 
   let out: string;

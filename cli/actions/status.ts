@@ -3,6 +3,7 @@ import { checkSite } from '../../shared/index.ts';
 import type { Revision, SiteAnswer } from '../lib/api-types.ts';
 import { createColour, type Colour } from '../lib/colour.ts';
 import { mapPool } from '../lib/pool.ts';
+import { plural } from '../lib/print-findings.ts';
 import { fetchSite } from '../lib/remote-site.ts';
 import { openSession } from '../lib/session.ts';
 import { loadSiteFiles } from '../lib/site-files.ts';
@@ -30,14 +31,23 @@ function localState(sha: string, answer: SiteAnswer | null): LocalState {
 
 function describeLocal(row: Row, c: Colour): string {
   switch (row.local) {
-    case 'same-as-approved': return c.green('same as approved');
-    case 'same-as-latest': return `same as latest (${row.latest!.state})`;
-    case 'differs-from-approved': return c.yellow(`differs from approved #${row.approved!.number}`);
-    case 'not-approved-yet': return c.yellow('differs; nothing approved yet');
-    case 'not-on-server': return c.dim('new: not pushed yet');
-    case 'no-site-id': return c.red('no site id (run weir check)');
+    case 'same-as-approved': return c.green('approved');
+    case 'same-as-latest': return `pushed, ${row.latest!.state}`;
+    case 'differs-from-approved': return c.yellow(`changed since #${row.approved!.number}`);
+    case 'not-approved-yet': return c.yellow('changed, none approved');
+    case 'not-on-server': return c.dim('new site');
+    case 'no-site-id': return c.red('no site id');
   }
 }
+
+const LOCAL_SUMMARY: Record<LocalState, string> = {
+  'same-as-approved': 'approved',
+  'same-as-latest': 'pushed and waiting',
+  'differs-from-approved': 'changed since approval',
+  'not-approved-yet': 'changed, none approved',
+  'not-on-server': 'new',
+  'no-site-id': 'without a site id',
+};
 
 const stateColour = (state: string, c: Colour) => (state === 'approved' ? c.green(state) : state === 'returned' ? c.red(state) : state === 'pending' ? c.yellow(state) : state);
 
@@ -58,17 +68,20 @@ export async function runStatus(paths: string[], options: { server?: string; for
     return;
   }
   const c = createColour(process.stdout, options);
-  const table = makeTable(['file', 'site', 'latest on server', 'approved', 'local file'], c);
+  const table = makeTable(['file', 'site', 'latest', 'approved', 'this file'], c);
   for (const r of rows) {
     table.push([
       r.path,
       r.site ?? c.dim('(none)'),
-      r.latest ? `#${r.latest.number} ${stateColour(r.latest.state, c)}${r.latest.errorCount ? c.red(` (${r.latest.errorCount} errors)`) : ''}` : c.dim('-'),
+      r.latest ? `#${r.latest.number} ${stateColour(r.latest.state, c)}${r.latest.errorCount ? c.red(` (${plural(r.latest.errorCount, 'error')})`) : ''}` : c.dim('-'),
       r.approved ? `#${r.approved.number}` : c.dim('none'),
       describeLocal(r, c),
     ]);
   }
   process.stdout.write(`${table.toString()}\n`);
-  const changed = rows.filter((r) => r.local === 'differs-from-approved' || r.local === 'not-approved-yet' || r.local === 'not-on-server').length;
-  process.stdout.write(`${rows.length} file${rows.length === 1 ? '' : 's'} on ${session.server}: ${changed} to push or awaiting approval.\n`);
+  const counts = (Object.keys(LOCAL_SUMMARY) as LocalState[])
+    .map((state) => [state, rows.filter((r) => r.local === state).length] as const)
+    .filter(([, n]) => n > 0)
+    .map(([state, n]) => `${n} ${LOCAL_SUMMARY[state]}`);
+  process.stdout.write(`${plural(rows.length, 'file')} against ${session.server}: ${counts.join(', ')}.\n`);
 }

@@ -7,6 +7,7 @@ export function checkCommand(): Command {
     .argument('[paths...]', 'site files, folders (searched for *.yaml and *.yml) or globs; default: the current folder')
     .addOption(formatOption(['human', 'json', 'sarif']))
     .option('--explain', 'also show the summary figures of each site (JSON: as `figures`)')
+    .option('--no-cache', 'check every file afresh (also WEIR_NO_CACHE=1); see below')
     .addHelpText('after', `
 Output
   human  one line per finding, \`file:line:col: severity rule-id message\`, then a summary
@@ -16,11 +17,15 @@ Output
          \`path\` is the file as given, relative to the current folder
   sarif  SARIF 2.1.0 for CI annotations
 
+Cache
+  Results are kept in $XDG_CACHE_HOME/weir (default ~/.cache/weir), keyed by each file's exact
+  text and the engine build, so a second check reads only the files that changed.
+
 Exit status
   0  no error findings (warnings and infos do not fail)
   1  at least one error finding, including YAML and schema errors
   2  usage or I/O problem: an unreadable path, or no files matched`)
-    .action(async (paths: string[], options: { format: 'human' | 'json' | 'sarif'; explain?: boolean }, command: Command) => {
+    .action(async (paths: string[], options: { format: 'human' | 'json' | 'sarif'; explain?: boolean; cache?: boolean }, command: Command) => {
       const { runCheck } = await import('../actions/check.ts');
       await runCheck(paths, { ...options, color: command.optsWithGlobals().color });
     });

@@ -1,47 +1,37 @@
-// Reads and checks many site files. Past a few hundred files the work is split between worker
-// threads (one per core, at most 4), each reading and checking its share; results keep the
-// order of the files. The engine is the same in every thread.
-import { existsSync, readFileSync } from 'node:fs';
+// Reads and checks many site files. Almost all the time goes into reading YAML, so two things
+// keep a large `weir check` quick: files whose text was checked before by the same engine build
+// are taken from a cache (check-cache.ts), and past a few hundred new files the checking is split
+// between worker threads (one per core, at most 4). Results keep the order of the files.
+import { existsSync } from 'node:fs';
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { checkSite, type Finding, type SiteSummary } from '../../shared/index.ts';
-import { CliError } from './errors.ts';
-import { ioMessage, type SiteFile } from './site-files.ts';
+import { openCheckCache, textKey } from './check-cache.ts';
+import { readSiteFiles, type SiteFile } from './site-files.ts';
 import { siteIdOf } from './site-id.ts';
 
 export interface CheckedFile {
   path: string;
   site: string | null;
   findings: Finding[];
+  /** Null when the file did not pass the schema, or when it came from the cache without one. */
   summary: SiteSummary | null;
-  /** The file's text, kept only when asked for. */
-  text?: string;
+}
+
+export interface CheckedText {
+  site: string | null;
+  findings: Finding[];
+  summary: SiteSummary | null;
 }
 
 /** Below this many files per thread, starting a thread costs more than it saves. */
 const FILES_PER_THREAD = 150;
 const MAX_THREADS = 4;
 
-export type ShardAnswer = { ok: true; results: CheckedFile[] } | { ok: false; index: number; message: string };
-
-/** Reads every file of the shard first (so an unreadable one stops before any work), then checks. */
-export function checkShard(files: readonly SiteFile[], offset = 0): ShardAnswer {
-  const texts: string[] = [];
-  for (let i = 0; i < files.length; i++) {
-    try {
-      texts.push(readFileSync(files[i].absolute, 'utf8'));
-    } catch (err) {
-      return { ok: false, index: offset + i, message: `cannot read ${files[i].path}: ${ioMessage(err)}` };
-    }
-  }
-  return {
-    ok: true,
-    results: files.map((file, i) => {
-      const result = checkSite(texts[i]);
-      return { path: file.path, site: siteIdOf(result.data), findings: result.findings, summary: result.summary };
-    }),
-  };
+export function checkText(text: string): CheckedText {
+  const result = checkSite(text);
+  return { site: siteIdOf(result.data), findings: result.findings, summary: result.summary };
 }
 
 function threadCount(files: number): number {
@@ -61,10 +51,10 @@ function workerFile(): string | null {
   }
 }
 
-function runWorker(file: string, files: SiteFile[], offset: number): Promise<ShardAnswer> {
+function runWorker(file: string, texts: string[]): Promise<CheckedText[]> {
   return new Promise((resolve, reject) => {
-    const worker = new Worker(file, { workerData: { files, offset } });
-    worker.once('message', (answer: ShardAnswer) => resolve(answer));
+    const worker = new Worker(file, { workerData: { texts } });
+    worker.once('message', (results: CheckedText[]) => resolve(results));
     worker.once('error', reject);
     worker.once('exit', (code) => {
       if (code !== 0) reject(new Error(`a check thread stopped with code ${code}`));
@@ -72,21 +62,34 @@ function runWorker(file: string, files: SiteFile[], offset: number): Promise<Sha
   });
 }
 
-export async function checkFiles(files: readonly SiteFile[]): Promise<CheckedFile[]> {
-  const threads = threadCount(files.length);
+/** Checks the texts, in worker threads when there are many; the main thread takes the first share. */
+export async function checkTexts(texts: readonly string[]): Promise<CheckedText[]> {
+  const threads = threadCount(texts.length);
   const worker = threads > 1 ? workerFile() : null;
-  let answers: ShardAnswer[];
-  if (!worker) {
-    answers = [checkShard(files)];
-  } else {
-    const size = Math.ceil(files.length / threads);
-    const shards = Array.from({ length: threads }, (_, i) => ({ offset: i * size, files: files.slice(i * size, (i + 1) * size) })).filter((s) => s.files.length > 0);
-    // The main thread takes the first share while the workers take the rest.
-    const pending = shards.slice(1).map((s) => runWorker(worker, s.files, s.offset));
-    const first = checkShard(shards[0].files, 0);
-    answers = [first, ...(await Promise.all(pending))];
-  }
-  const failures = answers.filter((a): a is Extract<ShardAnswer, { ok: false }> => !a.ok).sort((a, b) => a.index - b.index);
-  if (failures.length) throw new CliError(failures[0].message);
-  return answers.flatMap((a) => (a.ok ? a.results : []));
+  if (!worker) return texts.map(checkText);
+  const size = Math.ceil(texts.length / threads);
+  const shards = Array.from({ length: threads }, (_, i) => texts.slice(i * size, (i + 1) * size)).filter((s) => s.length > 0);
+  const pending = shards.slice(1).map((shard) => runWorker(worker, shard));
+  const first = shards[0].map(checkText);
+  return [first, ...(await Promise.all(pending))].flat();
+}
+
+export interface CheckFilesOptions {
+  /** Use and update the cache of earlier results (never for --explain, which needs the figures). */
+  cache: boolean;
+}
+
+export async function checkFiles(files: readonly SiteFile[], options: CheckFilesOptions): Promise<CheckedFile[]> {
+  const read = readSiteFiles(files);
+  const cache = options.cache ? openCheckCache() : null;
+  const keys = cache ? read.map((f) => textKey(f.text)) : [];
+  const results: (CheckedText | null)[] = read.map((_, i) => (cache ? cache.get(keys[i]) : null));
+  const missing = results.flatMap((r, i) => (r ? [] : [i]));
+  const fresh = await checkTexts(missing.map((i) => read[i].text));
+  missing.forEach((fileIndex, k) => {
+    results[fileIndex] = fresh[k];
+    cache?.set(keys[fileIndex], fresh[k]);
+  });
+  cache?.save(new Set(keys));
+  return read.map((f, i) => ({ path: f.path, site: results[i]!.site, findings: results[i]!.findings, summary: results[i]!.summary }));
 }

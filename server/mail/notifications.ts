@@ -16,7 +16,8 @@ export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; pub
     const site = revision && (await Site.findByPk(revision.siteId, { attributes: ['id', 'name'] }));
     return revision && site ? { revision, site } : null;
   };
-  const link = (siteId: string, revisionId: number) => `${publicUrl}/sites/${encodeURIComponent(siteId)}/revisions/${revisionId}`;
+  // The reviewer's page of one revision (web/src/app/router.tsx).
+  const link = (revisionId: number) => `${publicUrl}/revisions/${revisionId}`;
   const run = (what: string, task: () => Promise<void>) => mailer.later(`the ${what} notice`, task);
 
   return {
@@ -42,7 +43,7 @@ export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; pub
               revision.message ? `Message: ${revision.message}` : 'No message was given.',
               findings,
               '',
-              `Review it: ${link(site.id, revision.id)}`,
+              `Review it: ${link(revision.id)}`,
             ].join('\n'),
           });
         }
@@ -66,7 +67,7 @@ export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; pub
             review.comment ? `Comment: ${review.comment}` : 'No comment was given.',
             approved ? 'It is now the approved configuration of the site.' : 'Change the site file and push it again.',
             '',
-            link(site.id, revision.id),
+            link(revision.id),
           ].join('\n'),
         });
       });

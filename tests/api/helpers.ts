@@ -48,7 +48,7 @@ export interface Account {
 }
 
 /** Creates an account through the users service (as the seed does) and signs it in over HTTP. */
-export async function account(weir: TestWeir, role: Role, name = role): Promise<Account> {
+export async function account(weir: TestWeir, role: Role, name: string = role): Promise<Account> {
   const email = `${name}@example.test`;
   const user = await createServices(weir.runtime).users.create({ email, name: `Test ${name}`, role, password: PASSWORD }, null);
   const res = await request(weir.app).post('/api/auth/login').send({ email, password: PASSWORD }).expect(200);

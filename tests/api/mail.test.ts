@@ -71,7 +71,7 @@ describe('e-mail over SMTP', () => {
     expect(subject).toBe('[Weir] Mill Lane Bakery: revision 1 awaits review');
     expect(text).toContain(`pushed revision 1 of Mill Lane Bakery (mill-lane-bakery)`);
     expect(text).toContain('Message: First design');
-    expect(text).toContain(`http://weir.example.test/sites/mill-lane-bakery/revisions/${res.body.revision.id}`);
+    expect(text).toContain(`http://weir.example.test/revisions/${res.body.revision.id}`);
   });
 
   it('When a lead pushes, then the other leads are told but not the author', async () => {

@@ -1,21 +1,23 @@
-// The process entry as a user runs it: seed, serve, back up, stop. Runs server/main.ts through
-// tsx, the same code that scripts/build-server.ts bundles into dist/server.js.
+// The process entry as a user runs it: seed, serve, back up, stop. The server is bundled once by
+// scripts/build-server.ts, as for dist/server.js, into tests/.tmp (beside node_modules).
 import { execa, type ResultPromise } from 'execa';
 import { existsSync } from 'node:fs';
-import { copyFile, mkdtemp, readdir, rm, writeFile } from 'node:fs/promises';
+import { copyFile, mkdtemp, readFile, readdir, rm, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import sqlite3 from 'sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { buildServer } from '../../scripts/build-server.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const fixtures = path.join(root, 'tests/api/fixtures');
+const bundle = path.join(root, 'tests/.tmp', `server-${process.pid}.js`);
 let dataDir: string;
 let examplesDir: string;
 
 const run = (args: string[], env: Record<string, string> = {}) =>
-  execa('node', ['--import', 'tsx', 'server/main.ts', ...args], { cwd: root, reject: false, env: { WEIR_DATA_DIR: dataDir, WEIR_EXAMPLES_DIR: examplesDir, WEIR_LOG_LEVEL: 'warn', ...env } });
+  execa('node', [bundle, ...args], { cwd: root, reject: false, env: { WEIR_DATA_DIR: dataDir, WEIR_EXAMPLES_DIR: examplesDir, WEIR_LOG_LEVEL: 'warn', ...env } });
 
 function query<T>(file: string, sql: string): Promise<T[]> {
   return new Promise((resolve, reject) => {
@@ -27,16 +29,19 @@ function query<T>(file: string, sql: string): Promise<T[]> {
 }
 
 beforeAll(async () => {
+  await buildServer(bundle);
   dataDir = await mkdtemp(path.join(os.tmpdir(), 'weir-main-'));
   // A small fleet of our own: two good sites, one with errors, one that fails the schema.
   examplesDir = await mkdtemp(path.join(os.tmpdir(), 'weir-examples-'));
-  const base = await (await import('node:fs/promises')).readFile(path.join(fixtures, 'mill-lane.yaml'), 'utf8');
+  const base = await readFile(path.join(fixtures, 'mill-lane.yaml'), 'utf8');
   await writeFile(path.join(examplesDir, 'a-good.yaml'), base.replace('id: mill-lane-bakery', 'id: good-one'));
   await writeFile(path.join(examplesDir, 'b-good.yaml'), base.replace('id: mill-lane-bakery', 'id: good-two'));
   await writeFile(path.join(examplesDir, 'c-faulty.yaml'), base.replace('id: mill-lane-bakery', 'id: faulty-one').replace(/ratedPrimaryA: 100/g, 'ratedPrimaryA: 50'));
   await writeFile(path.join(examplesDir, 'd-broken.yaml'), base.replace('weir: 1', 'weir: 2'));
 });
 afterAll(async () => {
+  await rm(bundle, { force: true });
+  await rm(`${bundle}.map`, { force: true });
   await rm(dataDir, { recursive: true, force: true });
   await rm(examplesDir, { recursive: true, force: true });
 });
@@ -166,6 +171,6 @@ describe('serve', () => {
     const copy = path.join(dataDir, 'jwt-secret.copy');
     await copyFile(path.join(dataDir, 'jwt-secret'), copy);
     await run(['seed']);
-    expect(await (await import('node:fs/promises')).readFile(path.join(dataDir, 'jwt-secret'), 'utf8')).toBe(await (await import('node:fs/promises')).readFile(copy, 'utf8'));
+    expect(await readFile(path.join(dataDir, 'jwt-secret'), 'utf8')).toBe(await readFile(copy, 'utf8'));
   });
 });

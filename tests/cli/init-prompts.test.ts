@@ -106,6 +106,7 @@ describe('the init wizard', () => {
 
   it('asks the per-phase limits only for a per-phase policy, and judges their sum at the last phase', async () => {
     script = {
+      'Agreed export limit': ['6'],
       'Limit scope': ['per-phase'],
       'Export limit the gateway enforces': ['6'],
       'Export limit on L1': ['2'],

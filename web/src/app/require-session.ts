@@ -1,7 +1,7 @@
 import { redirect, type LoaderFunctionArgs } from 'react-router-dom';
 import { ApiError } from '../lib/api-client.ts';
 import { queryClient } from '../lib/query-client.ts';
-import { getSession, setSession, signInPath, updateSessionUser } from '../lib/session.ts';
+import { getSession, sessionEndReason, setSession, signInPath, updateSessionUser } from '../lib/session.ts';
 import { meQueryOptions } from '../features/auth/api/get-me.ts';
 import type { User } from '../types/api.ts';
 
@@ -16,14 +16,14 @@ function pathOf(request: Request): string {
  * no page asks the API anything before the session is known to be good.
  */
 export async function requireSession({ request }: Pick<LoaderFunctionArgs, 'request'>): Promise<User> {
-  if (!getSession()) throw redirect(signInPath(pathOf(request)));
+  if (!getSession()) throw redirect(signInPath(pathOf(request), sessionEndReason() ?? undefined));
   try {
     const { user } = await queryClient.ensureQueryData(meQueryOptions());
     updateSessionUser(user);
     return user;
   } catch (error) {
     if (error instanceof ApiError && error.status === 401) {
-      setSession(null);
+      setSession(null, 'expired');
       queryClient.clear();
       throw redirect(signInPath(pathOf(request), 'expired'));
     }

@@ -39,7 +39,7 @@ export function SeverityIcon({ severity, className = 'size-4' }: { severity: Sev
 
 export function SeverityBadge({ severity, count }: { severity: Severity; count?: number }) {
   return (
-    <span className={`inline-flex items-center gap-1 rounded border px-1.5 py-0.5 text-caption font-medium ${SEVERITY_STYLE[severity]}`}>
+    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-1.5 py-0.5 text-caption font-medium ${SEVERITY_STYLE[severity]}`}>
       <SeverityIcon severity={severity} className="size-3.5" />
       {count === undefined ? SEVERITY_LABEL[severity] : `${count} ${count === 1 ? SEVERITY_LABEL[severity].toLowerCase() : `${SEVERITY_LABEL[severity].toLowerCase()}s`}`}
     </span>
@@ -81,7 +81,7 @@ export function StateBadge({ state }: { state: AnyState }) {
   return (
     <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border px-2 py-0.5 text-caption font-medium ${STATE_STYLE[state] ?? STATE_STYLE.pending}`}>
       <span aria-hidden="true">{STATE_MARK[state] ?? '•'}</span>
-      {STATE_LABEL[state] ?? state}
+      <span>{STATE_LABEL[state] ?? state}</span>
     </span>
   );
 }

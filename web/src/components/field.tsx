@@ -32,7 +32,7 @@ export function TextField({ label, hint, error, className, id: givenId, ...input
   const id = givenId ?? autoId;
   return (
     <Shell id={id} label={label} hint={hint} error={error} className={className}>
-      <input id={id} className={inputClass} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...input} />
+      <input id={id} className={`${inputClass} h-10`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...input} />
     </Shell>
   );
 }
@@ -42,7 +42,7 @@ export function SelectField({ label, hint, error, className, id: givenId, childr
   const id = givenId ?? autoId;
   return (
     <Shell id={id} label={label} hint={hint} error={error} className={className}>
-      <select id={id} className={inputClass} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...select}>
+      <select id={id} className={`${inputClass} h-10`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...select}>
         {children}
       </select>
     </Shell>

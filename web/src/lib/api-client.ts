@@ -91,7 +91,7 @@ export async function apiFetch(path: string, options: RequestOptions = {}): Prom
   if (!response.ok) {
     const error = await errorFrom(response);
     if (response.status === 401 && !options.skipAuthRedirect && session) {
-      setSession(null);
+      setSession(null, 'expired');
       onUnauthorized(currentPath());
     }
     throw error;

@@ -31,7 +31,15 @@ export function getSession(): Session | null {
   return cached;
 }
 
-export function setSession(session: Session | null): void {
+// Why the last session ended, so every loader that finds no session can say "expired".
+let endedBecause: 'expired' | null = null;
+
+export function sessionEndReason(): 'expired' | null {
+  return endedBecause;
+}
+
+export function setSession(session: Session | null, reason?: 'expired'): void {
+  endedBecause = session ? null : reason ?? null;
   cached = session;
   if (session) localStorage.setItem(SESSION_KEY, JSON.stringify(session));
   else localStorage.removeItem(SESSION_KEY);

@@ -1,4 +1,5 @@
-import { NavLink, Outlet, useNavigate, useNavigation } from 'react-router-dom';
+import { useEffect, useRef } from 'react';
+import { NavLink, Outlet, useLocation, useNavigate, useNavigation } from 'react-router-dom';
 import { signOut } from '../../features/auth/api/sign-in.ts';
 import { CAN, useSession } from '../../lib/session.ts';
 import type { Role } from '../../types/api.ts';
@@ -14,6 +15,14 @@ export function AppLayout() {
   const navigate = useNavigate();
   const navigation = useNavigation();
   const role = session?.user.role;
+  const { pathname } = useLocation();
+  const shownPath = useRef(pathname);
+  // After moving to another page, keyboard and screen-reader users start at its content.
+  useEffect(() => {
+    if (shownPath.current === pathname) return;
+    shownPath.current = pathname;
+    document.getElementById('main')?.focus();
+  }, [pathname]);
 
   return (
     <div className="min-h-screen">
@@ -50,7 +59,7 @@ export function AppLayout() {
         </div>
         <div className={`h-0.5 bg-weir-500 transition-opacity ${navigation.state === 'loading' ? 'animate-pulse opacity-100' : 'opacity-0'}`} aria-hidden="true" />
       </header>
-      <main id="main" tabIndex={-1} className="mx-auto max-w-7xl px-4 py-6 sm:px-6 sm:py-8">
+      <main id="main" tabIndex={-1} className="outline-none focus-visible:outline-none mx-auto max-w-7xl px-4 py-6 sm:px-6 sm:py-8">
         <Outlet />
       </main>
     </div>

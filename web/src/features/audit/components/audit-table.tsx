@@ -15,6 +15,12 @@ function detailText(event: AuditEvent): string {
   return formatValue(detail);
 }
 
+/** Revisions are numbered per site; the event's details carry that number. */
+function revisionNumber(event: AuditEvent): number | null {
+  const d = event.details;
+  return d && typeof d === 'object' && typeof (d as { number?: unknown }).number === 'number' ? (d as { number: number }).number : null;
+}
+
 export function AuditTable({ items, busy }: { items: AuditEvent[]; busy?: boolean }) {
   return (
     <div className="overflow-x-auto rounded-lg border border-ink-200 bg-white">
@@ -35,13 +41,13 @@ export function AuditTable({ items, busy }: { items: AuditEvent[]; busy?: boolea
             <tr><td colSpan={6} className="px-3 py-8 text-center text-ink-600">No events match these filters.</td></tr>
           )}
           {items.map((e) => (
-            <tr key={e.seq} className="border-b border-ink-100 align-top last:border-0" data-action={e.action}>
+            <tr key={e.seq} className="border-b border-ink-100 align-top last:border-0" data-action={e.action} data-revision={e.revisionId ?? undefined}>
               <td className="px-3 py-2 font-mono text-caption text-ink-600">{e.seq}</td>
               <td className="whitespace-nowrap px-3 py-2">{formatDateTime(e.at)}</td>
               <td className="px-3 py-2"><code className="rounded bg-ink-100 px-1.5 py-0.5 font-mono text-caption text-ink-900">{e.action}</code></td>
               <td className="px-3 py-2">
-                {e.siteId ? <Link to={`/sites/${encodeURIComponent(e.siteId)}`} className="font-mono text-caption underline decoration-ink-300 underline-offset-2">{e.siteId}</Link> : '—'}
-                {e.revisionId ? <div><Link to={`/revisions/${e.revisionId}`} className="text-caption text-weir-700 underline underline-offset-2">revision {String(e.revisionId)}</Link></div> : null}
+                {e.siteId ? <Link to={`/sites/${encodeURIComponent(e.siteId)}`} className="whitespace-nowrap font-mono text-caption underline decoration-ink-300 underline-offset-2">{e.siteId}</Link> : '—'}
+                {e.revisionId ? <div><Link to={`/revisions/${e.revisionId}`} className="text-caption text-weir-700 underline underline-offset-2">revision {revisionNumber(e) ?? `#${e.revisionId}`}</Link></div> : null}
               </td>
               <td className="px-3 py-2">
                 {e.actor?.name && <div>{e.actor.name}</div>}

@@ -47,7 +47,7 @@ export function DiffTable({ changes: raw, against, collapse = false }: { changes
     <div className="overflow-x-auto">
       <table className="w-full min-w-[520px] table-fixed border-collapse text-body">
         <colgroup><col className="w-[40%]" /><col className="w-[7rem]" /><col /><col /></colgroup>
-        <caption className="mb-2 text-left text-caption text-ink-700">{changes.length} field{changes.length === 1 ? '' : 's'} differ from {against}</caption>
+        <caption className="mb-2 text-left text-caption text-ink-700">{changes.length === 1 ? '1 field differs' : `${changes.length} fields differ`} from {against}</caption>
         <thead className="border-b border-ink-200 text-caption text-ink-700">
           <tr>
             <th scope="col" className="py-1.5 pr-3 text-left font-medium">Field</th>
@@ -61,10 +61,10 @@ export function DiffTable({ changes: raw, against, collapse = false }: { changes
             <tr key={`${c.path}-${c.kind}`} data-path={c.path} className="border-b border-ink-100 align-top last:border-0" data-change={c.kind}>
               <th scope="row" className="py-1.5 pr-3 text-left font-mono text-caption font-medium text-ink-950 [overflow-wrap:anywhere]">{c.path}</th>
               <td className={`whitespace-nowrap py-1.5 pr-3 text-caption font-semibold ${KIND_STYLE[c.kind]}`}>{KIND_LABEL[c.kind]}</td>
-              <td className="py-1.5 pr-3 font-mono text-caption break-all">
+              <td className="py-1.5 pr-3 font-mono text-caption [overflow-wrap:anywhere]">
                 {c.kind === 'added' ? <span className="text-ink-500">—</span> : <del className="bg-sev-error-bg text-sev-error decoration-sev-error/50">{formatValue(c.before)}</del>}
               </td>
-              <td className="py-1.5 font-mono text-caption break-all">
+              <td className="py-1.5 font-mono text-caption [overflow-wrap:anywhere]">
                 {c.kind === 'removed' ? <span className="text-ink-500">—</span> : <ins className="bg-weir-50 text-weir-800 no-underline">{formatValue(c.after)}</ins>}
               </td>
             </tr>

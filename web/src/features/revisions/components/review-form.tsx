@@ -25,6 +25,8 @@ export function ReviewForm({ revision }: { revision: RevisionDetail }) {
   const blockers = revision.approvalBlockers ?? [];
   const canApprove = blockers.length === 0;
   const canReturn = !blockers.some((b) => BLOCKS_RETURN.includes(b));
+  // Once decided or superseded there is nothing to write: only say why.
+  const decided = blockers.includes('not-pending') && !done;
 
   const decide = (decision: 'approve' | 'return') => (event?: FormEvent) => {
     event?.preventDefault();
@@ -47,7 +49,7 @@ export function ReviewForm({ revision }: { revision: RevisionDetail }) {
 
   return (
     <form onSubmit={decide('approve')} className="flex flex-col gap-3" aria-label="Review this revision" noValidate>
-      <TextAreaField
+      {!decided && <TextAreaField
         label="Comment"
         name="comment"
         hint="Required to return; optional to approve. The author sees it by e-mail and in the history."
@@ -56,16 +58,18 @@ export function ReviewForm({ revision }: { revision: RevisionDetail }) {
         error={commentError}
         maxLength={4000}
         disabled={!canReturn && !canApprove}
-      />
+      />}
       <div className="flex flex-wrap items-start gap-3">
         <div className="flex flex-col gap-1">
           <Button type="submit" disabled={!canApprove || review.isPending} aria-describedby={canApprove ? undefined : 'approve-blocked'}>
             {canApprove ? '✓ Approve' : `Cannot approve: ${blockers.map((b) => BLOCKER_TEXT[b]?.short ?? b).join(', ')}`}
           </Button>
         </div>
-        <Button variant="danger" disabled={!canReturn || review.isPending} onClick={() => decide('return')()}>
-          ↩ Return to author
-        </Button>
+        {!decided && (
+          <Button variant="danger" disabled={!canReturn || review.isPending} onClick={() => decide('return')()}>
+            ↩ Return to author
+          </Button>
+        )}
       </div>
       {!canApprove && (
         <ul id="approve-blocked" className="list-disc space-y-0.5 pl-5 text-body text-ink-800" data-testid="approval-blockers">

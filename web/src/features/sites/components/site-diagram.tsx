@@ -83,7 +83,7 @@ export function SiteDiagram({ site, findings, title }: SiteDiagramProps) {
       viewBox={`0 0 ${width} ${height}`}
       role="group"
       aria-label={svgLabel}
-      className="h-auto w-full min-w-[820px] font-sans"
+      className="h-auto w-full min-w-[960px] font-sans"
       data-testid="site-diagram"
     >
       <defs>
@@ -231,6 +231,8 @@ export function SiteDiagram({ site, findings, title }: SiteDiagramProps) {
         </text>
         <text x={GATEWAY_X + 14} y={meterY + 88} className="fill-ink-300 text-[10px]">{`fail-safe: ${site.export?.failSafe?.action ?? '–'} after ${site.export?.failSafe?.afterS ?? '–'} s`}</text>
       </g>
+
+      <FindingFlag x={GATEWAY_X + GATEWAY_W - 36} y={meterY + 28} findings={faults.exportPolicy} label="Export policy" />
 
       {/* Control from the gateway to the generation */}
       {generation.length > 0 && (

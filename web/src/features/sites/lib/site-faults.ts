@@ -17,6 +17,8 @@ export interface SiteFaults {
   missing: LiveConductor[];
   meter: Finding[];
   bus: Finding[];
+  /** The export policy, which the gateway enforces. */
+  exportPolicy: Finding[];
   generation: Finding[][];
   /** Findings the diagram cannot place (the chart, the export policy, …). */
   elsewhere: Finding[];
@@ -55,7 +57,7 @@ export function missingConductors(site: Site): LiveConductor[] {
 
 export function locateFaults(site: Site, findings: readonly Finding[]): SiteFaults {
   const terminals = Object.fromEntries(TERMINALS.map((t) => [t, { faults: new Set<CtFault>(), findings: [] as Finding[] }])) as Record<CurrentTerminal, TerminalMarks>;
-  const out: SiteFaults = { terminals, missing: [], meter: [], bus: [], generation: (site.generation ?? []).map(() => []), elsewhere: [] };
+  const out: SiteFaults = { terminals, missing: [], meter: [], bus: [], exportPolicy: [], generation: (site.generation ?? []).map(() => []), elsewhere: [] };
   const inputs = site.meter?.currentInputs ?? {};
   const terminalsOfCt = (id: string | undefined) => TERMINALS.filter((t) => id !== undefined && inputs[t]?.ct === id);
   const terminalsOnConductor = (c: string) => TERMINALS.filter((t) => inputs[t]?.conductor === c);
@@ -89,6 +91,9 @@ export function locateFaults(site: Site, findings: readonly Finding[]): SiteFaul
       placed = true;
     } else if (at[0] === 'gateway') {
       out.bus.push(finding);
+      placed = true;
+    } else if (at[0] === 'export') {
+      out.exportPolicy.push(finding);
       placed = true;
     } else if (at[0] === 'generation' && typeof at[1] === 'number' && out.generation[at[1]]) {
       out.generation[at[1]].push(finding);
