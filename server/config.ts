@@ -35,6 +35,9 @@ export class ConfigError extends Error {}
 
 export const databaseFileOf = (dataDir: string) => path.join(dataDir, 'weir.sqlite');
 
+/** The address to show for a listening host: a wildcard host is reached on the loopback. */
+export const displayHost = (host: string) => (host === '0.0.0.0' || host === '::' ? '127.0.0.1' : host);
+
 function integer(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
@@ -80,7 +83,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
   const dataDir = path.resolve(overrides.dataDir ?? env.WEIR_DATA_DIR ?? './var');
   const port = overrides.port ?? integer(env, 'PORT', 3000, 0, 65535);
   const host = overrides.host ?? (env.HOST || '127.0.0.1');
-  const shownHost = host === '0.0.0.0' || host === '::' ? '127.0.0.1' : host;
   return {
     port,
     host,
@@ -93,7 +95,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     jwtTtlS: integer(env, 'WEIR_TOKEN_TTL_S', 8 * 3600, 60, 30 * 24 * 3600),
     smtpUrl: env.SMTP_URL || null,
     mailFrom: env.WEIR_MAIL_FROM || 'Weir <weir@example.test>',
-    publicUrl: (env.WEIR_PUBLIC_URL || `http://${shownHost}:${port}`).replace(/\/+$/, ''),
+    publicUrl: (env.WEIR_PUBLIC_URL || `http://${displayHost(host)}:${port}`).replace(/\/+$/, ''),
     demoPassword: env.WEIR_DEMO_PASSWORD || DEFAULT_DEMO_PASSWORD,
     demoPasswordFromEnv: Boolean(env.WEIR_DEMO_PASSWORD),
     loginRateLimit: integer(env, 'WEIR_LOGIN_RATE_LIMIT', 10, 1, 1_000_000),

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { Sequelize, Transaction } from 'sequelize';
 import sqlite3 from 'sqlite3';
 import { SequelizeStorage, Umzug } from 'umzug';
-import { AuditEvent, initAuditEvent } from './audit/audit-event.model.ts';
+import { initAuditEvent } from './audit/audit-event.model.ts';
 import { Attachment, initAttachment } from './attachments/attachment.model.ts';
 import { MIGRATIONS } from './migrations/index.ts';
 import { Review, initReview } from './revisions/review.model.ts';

@@ -8,7 +8,7 @@ import { parseArgs } from 'node:util';
 import { createApp } from './app.ts';
 import { checkPassword } from './auth/passwords.ts';
 import { backupDatabase } from './backup.ts';
-import { ConfigError, DEFAULT_DEMO_PASSWORD, databaseFileOf, loadConfig, type Config } from './config.ts';
+import { ConfigError, DEFAULT_DEMO_PASSWORD, databaseFileOf, displayHost, loadConfig, type Config } from './config.ts';
 import { openRuntime, type Runtime } from './runtime.ts';
 import { DEMO_ACCOUNTS } from './seed/demo-accounts.ts';
 import { seedDemo } from './seed/seed.ts';
@@ -64,24 +64,27 @@ async function serve(config: Config) {
   });
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.port;
-  const shown = config.host === '0.0.0.0' || config.host === '::' ? '127.0.0.1' : config.host;
-  say(`Weir is serving on http://${shown}:${port}`);
+  say(`Weir is serving on http://${displayHost(config.host)}:${port}`);
   if (!existsSync(path.join(webDir, 'index.html'))) say(`(no reviewer at ${webDir}: run npm run build to serve it; the API is up)`);
   for (const line of await demoLogins(config)) say(line);
   say(`Data in ${config.dataDir}; mail ${config.smtpUrl ? 'goes out over SMTP_URL' : `is kept in ${config.outboxDir}`}.`);
 
   let stopping = false;
   const stop = (signal: string) => {
-    if (stopping) return;
+    if (stopping) {
+      // A second Ctrl-C: do not wait for slow clients.
+      server.closeAllConnections();
+      return;
+    }
     stopping = true;
     runtime.logger.info({ signal }, 'shutting down');
-    const force = setTimeout(() => {
-      server.closeAllConnections();
-    }, SHUTDOWN_GRACE_MS);
+    const force = setTimeout(() => server.closeAllConnections(), SHUTDOWN_GRACE_MS);
     force.unref();
-    server.close(async () => {
-      await runtime.close();
-      say('Weir has stopped.');
+    server.close(() => {
+      runtime
+        .close()
+        .then(() => say('Weir has stopped.'))
+        .catch((err: unknown) => fail(`could not close cleanly: ${(err as Error).message}`));
     });
     server.closeIdleConnections();
   };

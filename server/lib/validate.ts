@@ -1,4 +1,5 @@
 import Ajv, { type ErrorObject, type JSONSchemaType, type ValidateFunction } from 'ajv';
+import siteSchema from '../../schemas/site.schema.json';
 import { AppError } from './app-error.ts';
 
 // One instance for bodies, one for query strings (whose values arrive as text and are coerced).
@@ -45,9 +46,12 @@ export function idParam(raw: string | string[] | undefined, what: string): numbe
 
 export const EMAIL_PATTERN = '^[^\\s@]+@[^\\s@]+\\.[^\\s@]+$';
 
-/** Site ids follow the site file's pattern (schemas/site.schema.json); anything else names no site. */
+/** The site file's own pattern for `site.id`. */
+const SITE_ID = new RegExp(siteSchema.properties.site.properties.id.pattern);
+
+/** Site ids follow the site file's pattern; anything else names no site. */
 export function siteParam(raw: string | string[] | undefined): string {
   const text = Array.isArray(raw) ? '' : (raw ?? '');
-  if (!/^[a-z0-9][a-z0-9-]{1,62}$/.test(text)) throw new AppError(404, 'not-found', 'the site was not found');
+  if (!SITE_ID.test(text)) throw new AppError(404, 'not-found', 'the site was not found');
   return text;
 }

@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import { DataTypes, Model, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { Revision, RevisionState } from '../revisions/revision.model.ts';
 import type { User } from '../users/user.model.ts';
 

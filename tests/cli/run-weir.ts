@@ -1,6 +1,6 @@
 // Runs the built CLI (bin/weir.js -> dist/cli) as a user would, with execa, in a clean
-// environment: no colour forcing, no server or token from the caller's shell, and a private
-// XDG config folder so no test touches a real sign-in.
+// environment: no colour forcing, no server or token from the caller's shell, and private XDG
+// config and cache folders so no test touches a real sign-in or cache.
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -23,14 +23,14 @@ export interface RunOptions {
   input?: string;
 }
 
-const CLEARED = ['WEIR_SERVER', 'WEIR_TOKEN', 'FORCE_COLOR', 'NO_COLOR', 'WEIR_CHECK_THREADS', 'WEIR_DEBUG'];
+const CLEARED = ['WEIR_SERVER', 'WEIR_TOKEN', 'FORCE_COLOR', 'NO_COLOR', 'WEIR_CHECK_THREADS', 'WEIR_DEBUG', 'WEIR_NO_CACHE'];
 
 export function weir(args: string[], options: RunOptions = {}): Promise<Result> {
   const env: Record<string, string | undefined> = {};
   for (const key of CLEARED) env[key] = undefined;
   return execa('node', [WEIR, ...args], {
     cwd: options.cwd ?? ROOT,
-    env: { ...env, XDG_CONFIG_HOME: options.env?.XDG_CONFIG_HOME ?? sharedConfigHome(), ...options.env },
+    env: { ...env, XDG_CONFIG_HOME: privateHome('config'), XDG_CACHE_HOME: privateHome('cache'), ...options.env },
     extendEnv: true,
     reject: false,
     input: options.input,
@@ -39,10 +39,14 @@ export function weir(args: string[], options: RunOptions = {}): Promise<Result> 
   }) as unknown as Promise<Result>;
 }
 
-let configHome: string | null = null;
-function sharedConfigHome(): string {
-  configHome ??= mkdtempSync(path.join(os.tmpdir(), 'weir-cli-config-'));
-  return configHome;
+const homes: Record<string, string> = {};
+/** One folder per test file and kind, removed when the test process ends. */
+export function privateHome(kind: 'config' | 'cache'): string {
+  if (!homes[kind]) {
+    homes[kind] = mkdtempSync(path.join(os.tmpdir(), `weir-cli-${kind}-`));
+    if (Object.keys(homes).length === 1) process.once('exit', () => { for (const dir of Object.values(homes)) rmSync(dir, { recursive: true, force: true }); });
+  }
+  return homes[kind];
 }
 
 export function tempDir(prefix = 'weir-cli-'): { dir: string; remove: () => void } {
