@@ -1,15 +1,16 @@
 // The engine in-process: sites per second through runRules on parsed documents and through the
 // whole checkSite, the time per site of each step (YAML, schema, rules, summary), and a CPU
 // profile of checkSite summarised to its top functions. Reported, with no budget.
-import { mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, rmSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { LineCounter, parseDocument } from 'yaml';
 import { checkSite, parseSite, runRules, summarizeSite, type Site } from '../shared/index.ts';
 import { validateSite } from '../shared/site/site-validator.generated.js';
 import { generateSites, type BaseSite } from './generate-sites.ts';
 import { outDir, repoRoot, run } from './lib/processes.ts';
+import { summariseProfile } from './lib/profile.ts';
 import type { Figure } from './lib/report.ts';
-import { fmt, timeRounds } from './lib/stats.ts';
+import { fmt, median } from './lib/stats.ts';
 
 const BENCH = 'engine';
 
@@ -37,8 +38,17 @@ export async function benchEngine({ count, runs, seed, bases }: { count: number;
     ['summary: summarizeSite', () => { for (const p of sites) summarizeSite(p.site as Site); }],
     ['checkSite (all of it)', () => { for (const t of texts) checkSite(t); }],
   ];
-  const timed = new Map<string, number>();
-  for (const [name, fn] of steps) timed.set(name, timeRounds(fn, { runs, warmup: 1 }).median);
+  // Round-robin: each round runs every step once, so drift in the machine's speed hits all alike.
+  const samples = new Map<string, number[]>(steps.map(([name]) => [name, []]));
+  for (const [, fn] of steps) fn(); // warm-up
+  for (let r = 0; r < runs; r++) {
+    for (const [name, fn] of steps) {
+      const t0 = performance.now();
+      fn();
+      samples.get(name)!.push(performance.now() - t0);
+    }
+  }
+  const timed = new Map([...samples].map(([name, v]) => [name, median(v)]));
   const total = timed.get('checkSite (all of it)')!;
 
   const rulesMs = timed.get('rules: runRules with locator')!;
@@ -57,13 +67,6 @@ export async function benchEngine({ count, runs, seed, bases }: { count: number;
   return { figures, profile };
 }
 
-interface ProfileNode {
-  id: number;
-  callFrame: { functionName: string; url: string; lineNumber: number };
-  hitCount?: number;
-  children?: number[];
-}
-
 /** Profiles checkSite in a child (only the checking, not the generating) and lists where the time went. */
 async function profileCheckSite(count: number, seed: number): Promise<string[]> {
   const dir = join(outDir, 'profile');
@@ -72,41 +75,5 @@ async function profileCheckSite(count: number, seed: number): Promise<string[]> 
   const file = join(dir, 'check-site.cpuprofile');
   const result = await run(process.execPath, ['--import', 'tsx', join(repoRoot, 'bench/engine-profile.ts'), String(count), String(seed), file], { timeoutMs: 120_000 });
   if (result.code !== 0) return [`(profile failed: exit ${result.code} ${result.stderrHead.slice(0, 300)})`];
-  const prof = JSON.parse(readFileSync(file, 'utf8')) as { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] };
-
-  // Self time per node, from the sample stream.
-  const byId = new Map(prof.nodes.map((n) => [n.id, n]));
-  const selfUs = new Map<number, number>();
-  for (let i = 0; i < prof.samples.length; i++) selfUs.set(prof.samples[i], (selfUs.get(prof.samples[i]) ?? 0) + (prof.timeDeltas[i] ?? 0));
-  const total = [...selfUs.values()].reduce((a, b) => a + b, 0);
-
-  const area = (url: string, fn: string) => {
-    if (fn === '(garbage collector)') return 'garbage collector';
-    if (fn === '(idle)' || fn === '(program)') return 'idle / program';
-    if (url.includes('/node_modules/yaml/')) return 'yaml package';
-    if (url.includes('site-validator.generated')) return 'schema validator';
-    if (url.includes('/shared/rules/')) return 'rules';
-    if (url.includes('/shared/site/locate')) return 'locator';
-    if (url.includes('/shared/')) return 'shared, other';
-    if (url.includes('/node_modules/tsx/') || url.includes('esbuild')) return 'tsx loader';
-    if (url.startsWith('node:') || url === '') return 'node internals';
-    return 'other';
-  };
-  const fnTotals = new Map<string, number>();
-  const areaTotals = new Map<string, number>();
-  for (const [id, us] of selfUs) {
-    const node = byId.get(id)!;
-    const { functionName, url, lineNumber } = node.callFrame;
-    const where = url.startsWith('file://') ? relative(repoRoot, new URL(url).pathname) : url || '(native)';
-    const key = `${functionName || '(anonymous)'}  ${where}:${lineNumber + 1}`;
-    fnTotals.set(key, (fnTotals.get(key) ?? 0) + us);
-    const a = area(url, functionName);
-    areaTotals.set(a, (areaTotals.get(a) ?? 0) + us);
-  }
-  const pct = (us: number) => `${((us / total) * 100).toFixed(1).padStart(5)} %`;
-  const lines = [`CPU profile of checkSite, ${count} sites × several rounds (${(total / 1e6).toFixed(2)} s sampled; open ${relative(repoRoot, file)} in Chrome DevTools for the tree):`, '  by area (self time):'];
-  for (const [a, us] of [...areaTotals].sort((x, y) => y[1] - x[1])) lines.push(`    ${pct(us)}  ${a}`);
-  lines.push('  top functions (self time):');
-  for (const [k, us] of [...fnTotals].sort((x, y) => y[1] - x[1]).slice(0, 15)) lines.push(`    ${pct(us)}  ${k}`);
-  return lines;
+  return [`CPU profile of checkSite, ${count} sites × several rounds (open ${relative(repoRoot, file)} in Chrome DevTools for the tree):`, ...summariseProfile(file)];
 }

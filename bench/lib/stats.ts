@@ -40,18 +40,6 @@ export async function timePair(
   return { subject: { samples: a, median: median(a) }, baseline: { samples: b, median: median(b) } };
 }
 
-/** Milliseconds per call of a synchronous function, as the median of `runs` rounds. */
-export function timeRounds(fn: () => void, { runs, warmup = 1 }: { runs: number; warmup?: number }): Samples {
-  for (let i = 0; i < warmup; i++) fn();
-  const samples: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const t0 = performance.now();
-    fn();
-    samples.push(performance.now() - t0);
-  }
-  return { samples, median: median(samples) };
-}
-
 export const fmt = {
   ms: (v: number) => (v >= 100 ? `${v.toFixed(0)} ms` : v >= 10 ? `${v.toFixed(1)} ms` : `${v.toFixed(2)} ms`),
   s: (ms: number) => `${(ms / 1000).toFixed(2)} s`,

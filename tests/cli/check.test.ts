@@ -239,7 +239,7 @@ describe('weir check usage and I/O problems exit 2 with one line on stderr', () 
 
   it.skipIf(process.getuid?.() === 0)('a file without read permission', async () => {
     const file = path.join(tmp.dir, 'locked.yaml');
-    writeFileSync(file, base);
+    writeFileSync(file, readFileSync(path.join(EXAMPLES, 'kiln-yard-workshop.yaml')));
     chmodSync(file, 0o000);
     const r = await weir(['check', file]);
     expect(r.exitCode).toBe(2);

@@ -129,6 +129,17 @@ describe('weir init refuses answers that the rules call errors (exit 2, nothing 
     });
   }
 
+  it('writes nothing and exits 1 when the defaults taken by --yes make a site with errors', async () => {
+    // S_svc = √3·400 V·20 A = 13.9 kVA (rules.md, "Export policy"): the default limit of 100 kW
+    // (the agreed one) cannot fit, and export-limit-over-service is an error
+    const file = path.join(tmp.dir, 'defaults-wrong.yaml');
+    const r = await weir(['init', '--yes', '--agreement-limit', '100', '--main-breaker', '20', file]);
+    expect(r.exitCode).toBe(1);
+    expect(r.stdout).toMatch(/defaults-wrong\.yaml:\d+:\d+: error export-limit-over-service/);
+    expect(r.stdout).toContain('Nothing written');
+    expect(existsSync(file)).toBe(false);
+  });
+
   it('asks for a terminal rather than hang when an answer is missing and --yes is not given', async () => {
     const file = path.join(tmp.dir, 'no-tty.yaml');
     const r = await weir(['init', file]);

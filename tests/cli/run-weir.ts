@@ -5,7 +5,7 @@ import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { execa, type Result } from 'execa';
+import { execa } from 'execa';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 export const WEIR = path.join(ROOT, 'bin', 'weir.js');
@@ -25,10 +25,16 @@ export interface RunOptions {
 
 const CLEARED = ['WEIR_SERVER', 'WEIR_TOKEN', 'FORCE_COLOR', 'NO_COLOR', 'WEIR_CHECK_THREADS', 'WEIR_DEBUG', 'WEIR_NO_CACHE'];
 
-export function weir(args: string[], options: RunOptions = {}): Promise<Result> {
+export interface RunResult {
+  exitCode: number;
+  stdout: string;
+  stderr: string;
+}
+
+export async function weir(args: string[], options: RunOptions = {}): Promise<RunResult> {
   const env: Record<string, string | undefined> = {};
   for (const key of CLEARED) env[key] = undefined;
-  return execa('node', [WEIR, ...args], {
+  const r = await execa('node', [WEIR, ...args], {
     cwd: options.cwd ?? ROOT,
     env: { ...env, XDG_CONFIG_HOME: privateHome('config'), XDG_CACHE_HOME: privateHome('cache'), ...options.env },
     extendEnv: true,
@@ -36,7 +42,8 @@ export function weir(args: string[], options: RunOptions = {}): Promise<Result> 
     input: options.input,
     stdin: options.input === undefined ? 'ignore' : 'pipe',
     timeout: 60_000,
-  }) as unknown as Promise<Result>;
+  });
+  return { exitCode: r.exitCode ?? -1, stdout: String(r.stdout), stderr: String(r.stderr) };
 }
 
 const homes: Record<string, string> = {};
