@@ -5,11 +5,12 @@
 // revisions/s. Also the query plans of the list and revision queries.
 import autocannon from 'autocannon';
 import { randomBytes } from 'node:crypto';
-import { existsSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { createRng, generateSites, type BaseSite } from './generate-sites.ts';
+import { existsSync, mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { createRng, generateSites, type BaseSite, type GeneratedSite } from './generate-sites.ts';
 import { BENCH_PASSWORD, BENCH_USERS, copyFleet, ensureFleet } from './lib/fleet.ts';
 import { freePort, outDir, repoRoot, run, startServer, type RunningServer } from './lib/processes.ts';
+import { summariseProfile } from './lib/profile.ts';
 import { atLeast, atMost, skipped, type Figure } from './lib/report.ts';
 import { fmt, median } from './lib/stats.ts';
 
@@ -80,6 +81,7 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
   copyFleet(fleet, dataDir);
 
   const figures: Figure[] = [];
+  const pool = generateSites(200, seed + 2, bases);
   let api: RunningServer | null = null;
   let bare: RunningServer | null = null;
   try {
@@ -130,13 +132,7 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
     figures.push({ bench: BENCH, figure: 'GET /api/revisions/:id (random ids)', value: `${fmt.int(revLoad.rps)} req/s`, result: revLoad.non2xx || revLoad.errors ? 'OVER' : 'INFO', note: `p50 ${revLoad.p50} ms, p99 ${revLoad.p99} ms${revLoad.non2xx ? `; ${revLoad.non2xx} non-2xx` : ''}` });
 
     // Pushes of fresh files: each request a new site (its own id), so each one stores a revision.
-    const pool = generateSites(200, seed + 2, bases);
-    let pushed = 0;
-    const freshFile = () => {
-      const g = pool[pushed % pool.length];
-      pushed++;
-      return g.text.replace(`id: ${g.id}`, `id: ${g.id}-p${pushed.toString(36)}`);
-    };
+    const freshFile = freshFiles(pool, 'p');
     const pushLoad = await load({
       url: api.url,
       duration,
@@ -151,9 +147,41 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
     await api?.stop();
   }
 
+  notes.push(...(await profileServer(dataDir, duration, pool)));
   const planned = generateSites(1, seed + 3, bases)[0];
   notes.push(...(await queryPlans(dataDir, revisions, planned.text.replace(`id: ${planned.id}`, `id: ${planned.id}-plan`))));
   return { figures, notes };
+}
+
+/** Site files never pushed before: the pool's, each under an id of its own. */
+function freshFiles(pool: GeneratedSite[], tag: string) {
+  let pushed = 0;
+  return () => {
+    const g = pool[pushed % pool.length];
+    pushed++;
+    return g.text.replace(`id: ${g.id}`, `id: ${g.id}-${tag}${pushed.toString(36)}`);
+  };
+}
+
+/** A second, short pass under --cpu-prof (not timed: the profiler slows it), to show where the server's time goes. */
+async function profileServer(dataDir: string, seconds: number, pool: GeneratedSite[]): Promise<string[]> {
+  const dir = join(outDir, 'api/profile');
+  rmSync(dir, { recursive: true, force: true });
+  mkdirSync(dir, { recursive: true });
+  const server = await startServer(['--cpu-prof', `--cpu-prof-dir=${dir}`, join(repoRoot, 'dist/server.js')], serverEnv(dataDir, await freePort()));
+  const out: string[] = [];
+  try {
+    const lead = await signIn(server.url, BENCH_USERS[3].email);
+    const installer = await signIn(server.url, BENCH_USERS[0].email);
+    await load({ url: `${server.url}/api/sites?limit=50`, headers: { authorization: `Bearer ${lead}` }, duration: seconds });
+    const freshFile = freshFiles(pool, 'f');
+    await load({ url: server.url, duration: seconds, headers: { authorization: `Bearer ${installer}`, 'content-type': 'application/yaml' }, requests: [{ method: 'POST', path: '/api/revisions?message=bench', setupRequest: (req) => ({ ...req, body: freshFile() }) }] });
+  } finally {
+    await server.stop();
+  }
+  const file = readdirSync(dir).find((f) => f.endsWith('.cpuprofile'));
+  if (!file) return ['(no server profile: the server did not exit cleanly on SIGTERM)'];
+  return [`CPU profile of the server's main thread under ${seconds} s of list load then ${seconds} s of pushes (${relative(repoRoot, join(dir, file))}):`, ...summariseProfile(join(dir, file), { top: 25 })];
 }
 
 interface Recorded {

@@ -1,13 +1,13 @@
 // `weir init`: the safety cautions, the questions (or flags), then a commented site file that
 // passes `weir check`.
-import { existsSync, mkdirSync, realpathSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, realpathSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import inquirer from 'inquirer';
 import { checkSite, SAFETY_CAUTIONS } from '../../shared/index.ts';
 import { createColour } from '../lib/colour.ts';
 import { CliError, EXIT_FINDINGS } from '../lib/errors.ts';
-import { buildSite, SITE_ID_PATTERN, type FieldKey, type Partial_ } from '../lib/init-fields.ts';
+import { buildSite, SITE_ID_PATTERN, TO_BE_CONFIRMED, type FieldKey, type Partial_ } from '../lib/init-fields.ts';
 import { QUESTIONS } from '../lib/init-flags.ts';
 import { gatherAnswers } from '../lib/init-prompts.ts';
 import { renderSiteYaml } from '../lib/init-yaml.ts';
@@ -19,7 +19,7 @@ const SCHEMA_ID = 'https://weir.example.test/schemas/site.schema.json';
 
 const posix = (p: string) => p.split(path.sep).join('/');
 
-/** The nearest schemas/site.schema.json above the file's folder, else the one shipped with weir. */
+/** The nearest schemas/site.schema.json at or above the file's folder, else the one shipped with weir. */
 export function schemaRefFor(folder: string): string {
   for (let dir = path.resolve(folder); ; dir = path.dirname(dir)) {
     if (existsSync(path.join(dir, SCHEMA_FILE))) return posix(path.relative(folder, path.join(dir, SCHEMA_FILE)));
@@ -27,11 +27,8 @@ export function schemaRefFor(folder: string): string {
   }
   try {
     const shipped = path.join(path.dirname(realpathSync(process.argv[1])), '..', SCHEMA_FILE);
-    if (existsSync(shipped)) {
-      const relative = path.relative(path.resolve(folder), shipped);
-      // Within the same project a relative path keeps working when the folder moves; else a file URL.
-      return path.relative(path.dirname(path.dirname(shipped)), path.resolve(folder)).startsWith('..') ? pathToFileURL(shipped).href : posix(relative);
-    }
+    // Outside the project (the walk above found no schema): the copy shipped with weir, as a URL.
+    if (existsSync(shipped)) return pathToFileURL(shipped).href;
   } catch {
     // no launcher path: fall through to the schema's $id
   }
@@ -47,7 +44,7 @@ function writeNew(target: string, text: string, force: boolean): void {
     writeFileSync(temp, text, { flag: 'wx' });
     renameSync(temp, target);
   } catch (err) {
-    try { if (existsSync(temp)) writeFileSync(temp, ''); } catch { /* nothing more to do */ }
+    rmSync(temp, { force: true });
     throw new CliError(`cannot write ${target}: ${(err as Error).message}`);
   }
 }
@@ -104,5 +101,7 @@ export async function runInit(file: string | undefined, options: Record<string, 
   out('');
   if (others.length) out(fileBlock(shown, others, c));
   out(`${c.green('Wrote')} ${c.bold(shown)} (${plural(result.counts.error, 'error')}, ${plural(result.counts.warning, 'warning')}, ${plural(result.counts.info, 'info')}).`);
-  out(`Next: fill in anything marked "to be confirmed", then ${c.bold(`weir check ${shown}`)} and ${c.bold(`weir push ${shown}`)}.`);
+  const placeholders = text.split('\n').filter((l) => l.includes(`: ${TO_BE_CONFIRMED}`)).length;
+  const fill = placeholders ? `fill in the ${plural(placeholders, 'value')} marked "${TO_BE_CONFIRMED}", then ` : '';
+  out(`Next: ${fill}${c.bold(`weir check ${shown}`)}, then ${c.bold(`weir push ${shown}`)} to send it for review.`);
 }

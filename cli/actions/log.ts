@@ -1,10 +1,9 @@
 // `weir log <site-id>`: the site's revisions and their reviews, newest first.
 import type { Revision, Review } from '../lib/api-types.ts';
 import { createColour, type Colour } from '../lib/colour.ts';
-import { CliError } from '../lib/errors.ts';
+import { ApiError, CliError } from '../lib/errors.ts';
 import { plural } from '../lib/print-findings.ts';
 import { checkSiteIdArgument, when } from '../lib/remote-site.ts';
-import { ApiError } from '../lib/errors.ts';
 import { openSession } from '../lib/session.ts';
 
 const stateText = (state: string, c: Colour) => {

@@ -1,5 +1,5 @@
 // `weir pull <site-id>`: the approved (or --latest) revision's site file, to a file or stdout.
-import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { createColour } from '../lib/colour.ts';
 import { CliError, EXIT_FINDINGS } from '../lib/errors.ts';
@@ -38,6 +38,7 @@ export async function runPull(siteId: string, options: { output?: string; latest
     writeFileSync(temp, text, { flag: 'wx' });
     renameSync(temp, target);
   } catch (err) {
+    rmSync(temp, { force: true });
     throw new CliError(`cannot write ${target}: ${(err as Error).message}`);
   }
   process.stdout.write(`${c.green('Wrote')} ${c.bold(target)}: ${described}.\n`);

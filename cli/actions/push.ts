@@ -8,7 +8,7 @@ import { fileBlock, plural } from '../lib/print-findings.ts';
 import { startProgress } from '../lib/progress.ts';
 import { describeApiError } from '../lib/report-error.ts';
 import { openSession } from '../lib/session.ts';
-import { loadSiteFiles, type ReadSiteFile } from '../lib/site-files.ts';
+import { loadSiteFiles } from '../lib/site-files.ts';
 import { siteIdOf } from '../lib/site-id.ts';
 import { makeTable } from '../lib/table.ts';
 
@@ -86,7 +86,7 @@ export async function runPush(paths: string[], options: PushOptions): Promise<vo
     try {
       const headers: Record<string, string> = { 'content-type': 'application/yaml; charset=utf-8' };
       if (message) headers['x-weir-message'] = encodeURIComponent(message);
-      const { body } = await session.client.request<{ revision: Revision; created: boolean }>('POST', '/api/revisions', { body: (item.file as ReadSiteFile).text, headers });
+      const { body } = await session.client.request<{ revision: Revision; created: boolean }>('POST', '/api/revisions', { body: item.file.text, headers });
       return { ...base, ok: true, created: body.created, revision: body.revision };
     } catch (err) {
       if (err instanceof ApiError) {

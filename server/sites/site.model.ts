@@ -45,12 +45,13 @@ export function initSite(sequelize: Sequelize) {
 }
 
 /**
- * One status per site, so that each of the four is reachable: a site whose latest revision
- * awaits review is `pending`; otherwise one never approved is `never-approved` (its revisions
- * were all returned); otherwise the latest revision's state decides.
+ * One status per site, for the list: the latest revision's review state says what the site needs
+ * next (`pending` awaits a lead, `returned` awaits the installer); otherwise a site that was
+ * never approved is `never-approved` (a state filter of the same name finds every site without
+ * an approved revision, whatever its latest state).
  */
 export function deriveSiteStatus(latestState: Site['latestState'], approvedRevisionId: number | null): SiteStatus {
-  if (latestState === 'pending') return 'pending';
+  if (latestState === 'pending' || latestState === 'returned') return latestState;
   if (approvedRevisionId === null) return 'never-approved';
-  return latestState;
+  return 'approved';
 }

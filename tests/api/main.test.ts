@@ -66,7 +66,7 @@ describe('seed', () => {
     const sites = await query<{ id: string; status: string }>(db, 'SELECT id, status FROM sites ORDER BY id');
     // good-one: approved; good-two: approved, then a newer pending push; faulty-one: returned.
     expect(sites).toEqual([
-      { id: 'faulty-one', status: 'never-approved' },
+      { id: 'faulty-one', status: 'returned' },
       { id: 'good-one', status: 'approved' },
       { id: 'good-two', status: 'pending' },
     ]);

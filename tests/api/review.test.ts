@@ -113,8 +113,9 @@ describe('return', () => {
     const res = await review(weir, lead, pushed.body.revision.id, 'return', 'Add the commissioning readings.').expect(200);
     expect(res.body.revision.state).toBe('returned');
     const s = await api().get(`/api/sites/${site.id}`).set(installer.auth).expect(200);
-    // Returned and never approved: the status says never-approved, the state filter `returned` still finds it.
-    expect(s.body.site.status).toBe('never-approved');
+    // Returned and never approved: the status says what is needed next (returned); the
+    // `never-approved` filter still finds it.
+    expect(s.body.site.status).toBe('returned');
     const filtered = await api().get('/api/sites').query({ state: 'returned' }).set(installer.auth).expect(200);
     expect(filtered.body.items.map((i: { id: string }) => i.id)).toContain(site.id);
   });
