@@ -7,7 +7,7 @@ import inquirer from 'inquirer';
 import { checkSite, SAFETY_CAUTIONS } from '../../shared/index.ts';
 import { createColour } from '../lib/colour.ts';
 import { CliError, EXIT_FINDINGS } from '../lib/errors.ts';
-import { buildSite, SITE_ID_PATTERN, TO_BE_CONFIRMED, type FieldKey, type Partial_ } from '../lib/init-fields.ts';
+import { buildSite, SITE_ID_PATTERN, TO_BE_CONFIRMED, type FieldKey, type SomeAnswers } from '../lib/init-fields.ts';
 import { QUESTIONS } from '../lib/init-flags.ts';
 import { gatherAnswers } from '../lib/init-prompts.ts';
 import { renderSiteYaml } from '../lib/init-yaml.ts';
@@ -66,7 +66,7 @@ export async function runInit(file: string | undefined, options: Record<string, 
     const v = options[key];
     if (typeof v === 'string') flags[key] = v;
   }
-  const defaults: Partial_ = {};
+  const defaults: SomeAnswers = {};
   if (file !== undefined) {
     const stem = path.basename(file).replace(/\.ya?ml$/i, '');
     if (SITE_ID_PATTERN.test(stem)) defaults.siteId = stem;

@@ -51,7 +51,7 @@ export interface InitAnswers {
 }
 
 export type FieldKey = keyof InitAnswers;
-export type Partial_ = Partial<InitAnswers>;
+export type SomeAnswers = Partial<InitAnswers>;
 
 /** The outcome of a check: the value, or why it was refused. */
 export type Checked<T> = { ok: true; value: T; notes: string[] } | { ok: false; message: string };
@@ -69,14 +69,14 @@ export interface Field<K extends FieldKey = FieldKey> {
   /** The question, and the flag's help line. */
   message: string;
   kind: 'text' | 'number' | 'choice';
-  choices?: (a: Partial_) => Choice[];
+  choices?: (a: SomeAnswers) => Choice[];
   /** Asked only when this holds for the answers so far. */
-  when?: (a: Partial_) => boolean;
-  default: (a: Partial_) => InitAnswers[K];
+  when?: (a: SomeAnswers) => boolean;
+  default: (a: SomeAnswers) => InitAnswers[K];
   /** Text to value, or an error message. */
-  parse: (raw: string, a: Partial_) => InitAnswers[K] | { error: string };
+  parse: (raw: string, a: SomeAnswers) => InitAnswers[K] | { error: string };
   /** Range and shape checks of the value itself. */
-  check?: (value: InitAnswers[K], a: Partial_) => true | string;
+  check?: (value: InitAnswers[K], a: SomeAnswers) => true | string;
   /** Engine finding paths that this answer is responsible for. */
   concerns?: RegExp;
 }
@@ -89,8 +89,6 @@ export const SITE_ID_PATTERN = new RegExp(SITE_ID_PATTERN_TEXT);
  * multiples (IEC 61869-2:2012 cl. 5.201, from memory).
  */
 export const CT_PRIMARY_SERIES_A = [5, 10, 12.5, 15, 20, 25, 30, 40, 50, 60, 75, 100, 125, 150, 200, 250, 300, 400, 500, 600, 750, 1000, 1250, 1500, 2000, 2500, 3000, 4000, 5000];
-/** Rated outputs, VA: IEC 61869-2:2012 cl. 5.5.201. */
-export const CT_RATED_BURDENS_VA = [1, 2.5, 5, 10, 15, 30];
 /** Cross-sections with a resistance in IEC 60228:2004 (class 1/2 copper), mm². */
 export const LEAD_CSA_MM2 = [0.5, 0.75, 1, 1.5, 2.5, 4, 6];
 
@@ -132,12 +130,12 @@ function oneOf<T extends string | number>(what: string, values: readonly T[]) {
 
 // ---- defaults ----------------------------------------------------------------------------------
 
-const live = (a: Partial_): LiveConductor[] => liveConductors(a.arrangement ?? 'three-phase-4w');
+const live = (a: SomeAnswers): LiveConductor[] => liveConductors(a.arrangement ?? 'three-phase-4w');
 
 /** Nominal pairs of IEC 60038:2009 Table 1 (secondary source): V_LN to the usual V_LL. */
 const NOMINAL_LL: Record<number, number> = { 120: 208, 230: 400, 277: 480, 347: 600, 400: 690 };
 
-function defaultVoltageLl(a: Partial_): number {
+function defaultVoltageLl(a: SomeAnswers): number {
   if (a.arrangement === 'split-phase') return 2 * (a.voltageLn ?? 120);
   if (a.arrangement === 'three-phase-3w') return 400;
   const ln = a.voltageLn ?? 230;
@@ -149,16 +147,16 @@ export function defaultCtRating(mainBreakerA: number): number {
   return CT_PRIMARY_SERIES_A.find((r) => r >= mainBreakerA) ?? Math.ceil(mainBreakerA / 100) * 100;
 }
 
-const needsBurden = (a: Partial_) => a.ctSecondary === '5A' || a.ctSecondary === '1A';
-const perPhaseOn = (c: LiveConductor) => (a: Partial_) => a.exportScope === 'per-phase' && live(a).includes(c);
+const needsBurden = (a: SomeAnswers) => a.ctSecondary === '5A' || a.ctSecondary === '1A';
+const perPhaseOn = (c: LiveConductor) => (a: SomeAnswers) => a.exportScope === 'per-phase' && live(a).includes(c);
 
 /** An even share of the limit per live conductor, rounded down so that the shares never add up to more. */
-function share(a: Partial_): number {
+function share(a: SomeAnswers): number {
   const n = live(a).length;
   return Math.floor(((a.exportLimit ?? 0) / n) * 1000) / 1000;
 }
 
-export function defaultGeneration(a: Partial_): GenerationGroup[] {
+export function defaultGeneration(a: SomeAnswers): GenerationGroup[] {
   return [{ id: 'pv-1', units: 10, unitAcKw: 0.4, phase: live(a).length > 1 ? 'all' : 'L1' }];
 }
 
@@ -390,21 +388,15 @@ export const FIELDS: Field[] = [
 ] as Field[];
 
 /** The per-phase sum is judged at the last live conductor's answer, once every share is known. */
-function perPhaseConcerns(field: Field, a: Partial_): RegExp | undefined {
+function perPhaseConcerns(field: Field, a: SomeAnswers): RegExp | undefined {
   if (!field.key.startsWith('limitL')) return field.concerns;
   const last = live(a).at(-1);
   return field.key === `limit${last}` ? /^export\.perPhaseLimitKw/ : undefined;
 }
 
-export function fieldByKey(key: FieldKey): Field {
-  const f = FIELDS.find((x) => x.key === key);
-  if (!f) throw new Error(`no field ${key}`);
-  return f;
-}
-
 /** Every answer, with defaults for those not given; fields that do not apply are left out. */
-export function resolveAnswers(given: Partial_): Partial_ {
-  const out: Partial_ = {};
+export function resolveAnswers(given: SomeAnswers): SomeAnswers {
+  const out: SomeAnswers = {};
   for (const field of FIELDS) {
     if (field.when && !field.when(out)) continue;
     const value = given[field.key] !== undefined ? given[field.key] : field.default(out);
@@ -414,7 +406,7 @@ export function resolveAnswers(given: Partial_): Partial_ {
 }
 
 /** The site that the answers describe. CTs, voltage and current inputs follow the arrangement. */
-export function buildSite(a: Partial_): Site {
+export function buildSite(a: SomeAnswers): Site {
   const r = resolveAnswers(a);
   const conductors = live(r);
   const arrangement = r.arrangement!;
@@ -477,7 +469,7 @@ const describe = (f: Finding) => (f.hint ? `${f.message} (${f.hint})` : f.messag
  * Checks one answer: its own parse and range check, then the rules on a draft site with every
  * other answer as given so far (or its default). Warnings come back as notes.
  */
-export function checkAnswer<K extends FieldKey>(field: Field<K>, value: InitAnswers[K], given: Partial_, schemaRef = '../schemas/site.schema.json'): Checked<InitAnswers[K]> {
+export function checkAnswer<K extends FieldKey>(field: Field<K>, value: InitAnswers[K], given: SomeAnswers, schemaRef = '../schemas/site.schema.json'): Checked<InitAnswers[K]> {
   const own = field.check?.(value, given);
   if (own !== undefined && own !== true) return { ok: false, message: own };
   const concerns = perPhaseConcerns(field as unknown as Field, resolveAnswers({ ...given, [field.key]: value }));
@@ -490,7 +482,7 @@ export function checkAnswer<K extends FieldKey>(field: Field<K>, value: InitAnsw
 }
 
 /** Parses and checks a raw answer (a flag's value or typed text). */
-export function checkRaw<K extends FieldKey>(field: Field<K>, raw: string, given: Partial_, schemaRef?: string): Checked<InitAnswers[K]> {
+export function checkRaw<K extends FieldKey>(field: Field<K>, raw: string, given: SomeAnswers, schemaRef?: string): Checked<InitAnswers[K]> {
   const parsed = field.parse(raw, given);
   if (typeof parsed === 'object' && parsed !== null && 'error' in (parsed as object)) return { ok: false, message: (parsed as { error: string }).error };
   return checkAnswer(field, parsed as InitAnswers[K], given, schemaRef);
@@ -506,7 +498,7 @@ export function checkGroupId(id: string, taken: readonly GenerationGroup[]): tru
   return true;
 }
 
-export function phaseChoices(a: Partial_): Choice[] {
+export function phaseChoices(a: SomeAnswers): Choice[] {
   const conductors = live(a);
   const out: Choice[] = conductors.map((c) => ({ value: c }));
   if (conductors.length > 1) out.push({ value: 'all', name: `all  (a unit on ${conductors.join(' + ')})` });
@@ -514,7 +506,7 @@ export function phaseChoices(a: Partial_): Choice[] {
 }
 
 /** `roof-east:10:0.4:L1`, the --generation form: id, units, kW per unit, phase. */
-export function parseGroupSpec(spec: string, a: Partial_, taken: readonly GenerationGroup[]): GenerationGroup | { error: string } {
+export function parseGroupSpec(spec: string, a: SomeAnswers, taken: readonly GenerationGroup[]): GenerationGroup | { error: string } {
   const parts = spec.split(':');
   if (parts.length !== 4) return { error: `--generation ${spec}: expected id:units:kW:phase, for example roof-east:10:0.4:L1` };
   const [id, unitsRaw, kwRaw, phaseRaw] = parts.map((p) => p.trim());

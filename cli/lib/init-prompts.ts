@@ -7,7 +7,7 @@ import type { Colour } from './colour.ts';
 import { CliError } from './errors.ts';
 import {
   FIELDS, checkAnswer, checkGroupId, checkRaw, defaultGeneration, parseGroupSpec, phaseChoices,
-  type Field, type FieldKey, type InitAnswers, type Partial_,
+  type Field, type FieldKey, type InitAnswers, type SomeAnswers,
 } from './init-fields.ts';
 
 export interface GatherOptions {
@@ -17,7 +17,7 @@ export interface GatherOptions {
   generation?: string[];
   yes: boolean;
   /** Fixed answers that are not asked (the site id from the file name is only a default). */
-  defaults?: Partial_;
+  defaults?: SomeAnswers;
   schemaRef: string;
   c: Colour;
   out: (line: string) => void;
@@ -28,7 +28,7 @@ async function ask<T>(question: Record<string, unknown>): Promise<T> {
   return (answers as { value: T }).value;
 }
 
-async function askField(field: Field, answers: Partial_, o: GatherOptions): Promise<unknown> {
+async function askField(field: Field, answers: SomeAnswers, o: GatherOptions): Promise<unknown> {
   const fallback = o.defaults?.[field.key] !== undefined ? o.defaults[field.key] : field.default(answers);
   for (;;) {
     let raw: string;
@@ -56,7 +56,7 @@ async function askField(field: Field, answers: Partial_, o: GatherOptions): Prom
   }
 }
 
-async function askGeneration(answers: Partial_, o: GatherOptions): Promise<GenerationGroup[]> {
+async function askGeneration(answers: SomeAnswers, o: GatherOptions): Promise<GenerationGroup[]> {
   const field = FIELDS.find((f) => f.key === 'generation')!;
   for (;;) {
     const groups: GenerationGroup[] = [];
@@ -82,7 +82,7 @@ async function askGeneration(answers: Partial_, o: GatherOptions): Promise<Gener
   }
 }
 
-function fromFlags(answers: Partial_, o: GatherOptions): GenerationGroup[] {
+function fromFlags(answers: SomeAnswers, o: GatherOptions): GenerationGroup[] {
   const field = FIELDS.find((f) => f.key === 'generation')! as Field<'generation'>;
   const groups: GenerationGroup[] = [];
   for (const spec of o.generation ?? []) {
@@ -97,7 +97,7 @@ function fromFlags(answers: Partial_, o: GatherOptions): GenerationGroup[] {
 
 /** Every answer: from its flag, its default (--yes) or the prompt, each checked as it comes. */
 export async function gatherAnswers(o: GatherOptions): Promise<InitAnswers> {
-  const answers: Partial_ = {};
+  const answers: SomeAnswers = {};
   let section = '';
   for (const field of FIELDS) {
     if (field.when && !field.when(answers)) continue;
