@@ -34,6 +34,7 @@ Exit status: 0 fine, 1 errors in a site file (or refused by the server), 2 usage
   // Commander's own exits become exceptions, so that one place sets the exit code.
   const configure = (cmd: Command) => {
     cmd.exitOverride();
+    cmd.configureHelp({ showGlobalOptions: true });
     for (const sub of cmd.commands) configure(sub);
   };
   configure(program);

@@ -3,7 +3,7 @@
 // check, every answer is tried in a draft site file that the shared engine checks, so an answer
 // that the rules would call an error is refused where it is given, with the rule's own words.
 import {
-  checkSite, getProfile, liveConductors, SQRT3,
+  checkSite, COPPER_CLASS2_OHM_PER_KM, getProfile, liveConductors, SQRT3,
   type AccuracyClass, type Arrangement, type Arrow, type FailSafeAction, type Finding, type GenerationGroup,
   type LiveConductor, type Parity, type ProfileId, type Secondary, type Site,
 } from '../../shared/index.ts';
@@ -89,8 +89,8 @@ export const SITE_ID_PATTERN = new RegExp(SITE_ID_PATTERN_TEXT);
  * multiples (IEC 61869-2:2012 cl. 5.201, from memory).
  */
 export const CT_PRIMARY_SERIES_A = [5, 10, 12.5, 15, 20, 25, 30, 40, 50, 60, 75, 100, 125, 150, 200, 250, 300, 400, 500, 600, 750, 1000, 1250, 1500, 2000, 2500, 3000, 4000, 5000];
-/** Cross-sections with a resistance in IEC 60228:2004 (class 1/2 copper), mm². */
-export const LEAD_CSA_MM2 = [0.5, 0.75, 1, 1.5, 2.5, 4, 6];
+/** The cross-sections that the engine has an IEC 60228:2004 resistance for, mm². */
+const LEAD_CSA_MM2 = COPPER_CLASS2_OHM_PER_KM.map(([csa]) => csa);
 
 const PROFILES: ProfileId[] = ['gb-g100', 'au-4777', 'de-4105', 'us-pcs', 'generic'];
 const ARRANGEMENTS: Arrangement[] = ['single-phase', 'split-phase', 'three-phase-4w', 'three-phase-3w'];
@@ -310,6 +310,7 @@ export const FIELDS: Field[] = [
   {
     key: 'ctBurden', section: 'CTs (one per live conductor)', ...QUESTIONS.ctBurden, kind: 'number',
     when: needsBurden,
+    // the smallest standard rated output (IEC 61869-2:2012 cl. 5.5.201: 2.5, 5, 10, 15, 30 VA)
     default: () => 2.5,
     parse: number('the rated burden', { exclusiveMin: 0 }),
     // The leads were asked before: a burden they exceed is refused here (ct-burden-exceeded).

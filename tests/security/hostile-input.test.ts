@@ -35,7 +35,11 @@ afterAll(() => weir?.close());
 afterEach(async () => {
   // Whatever a test threw at it, the app still answers and holds exactly what it held.
   await api().get('/api/health').expect(200);
-  expect(await state(weir)).toEqual(before);
+  const now = await state(weir);
+  const expected = before;
+  // Reset first, so that one test's leak is reported once, not by every test after it.
+  before = now;
+  expect(now).toEqual(expected);
   expect(({} as Record<string, unknown>).polluted, 'Object.prototype was polluted').toBeUndefined();
 });
 

@@ -62,7 +62,8 @@ afterAll(async () => {
 
 describe('a seeded server under attack', () => {
   it('When 60 hostile pushes, reviews and sign-ins arrive at once, then every one is a 4xx', async () => {
-    const files = Object.values(hostileFiles());
+    // fetch takes text or a plain Uint8Array as a body.
+    const files = Object.values(hostileFiles()).map((f) => (typeof f === 'string' ? f : new Uint8Array(f)));
     const requests: Promise<Response>[] = [];
     for (let i = 0; i < 20; i++) {
       requests.push(fetch(`${server.url}/api/revisions`, { method: 'POST', headers: { authorization: `Bearer ${installer}`, 'content-type': 'application/yaml' }, body: files[i % files.length] }));
@@ -77,7 +78,7 @@ describe('a seeded server under attack', () => {
     }
   });
 
-  it('When the HTTP itself is malformed (huge headers, smuggling, bad versions, lies about length), then 4xx or a closed connection', async () => {
+  it('When the HTTP itself is malformed (huge headers, smuggling, bad versions, lies about length), then a 4xx and nothing behind it is answered', async () => {
     const host = `127.0.0.1:${server.port}`;
     const cases: [string, string | Buffer, number[]][] = [
       ['headers over the limit', `GET /api/health HTTP/1.1\r\nHost: ${host}\r\nX-Big: ${'a'.repeat(20_000)}\r\n\r\n`, [431, 400]],
@@ -90,9 +91,7 @@ describe('a seeded server under attack', () => {
     ];
     for (const [what, payload, statuses] of cases) {
       const response = await raw(payload);
-      const status = statusOf(response);
-      // No answer at all is also a refusal (Node drops some requests without one).
-      if (status !== 0) expect(statuses, `${what}: ${response.slice(0, 200)}`).toContain(status);
+      expect(statuses, `${what}: ${response.slice(0, 200)}`).toContain(statusOf(response));
       expect(response, what).not.toMatch(/"users":|"items":\s*\[\s*\{\s*"id":\s*\d+,\s*"email"/);
     }
   });
@@ -102,7 +101,7 @@ describe('a seeded server under attack', () => {
     const boundary = 'CutOff';
     const head = `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="a.png"\r\nContent-Type: image/png\r\n\r\n`;
     const partialUpload = Buffer.concat([
-      Buffer.from(`POST /api/sites/brightfield-depot/attachments HTTP/1.1\r\nHost: ${host}\r\nAuthorization: Bearer ${installer}\r\nContent-Type: multipart/form-data; boundary=${boundary}\r\nContent-Length: 5000000\r\n\r\n${head}`),
+      Buffer.from(`POST /api/sites/bluestem-cold-store/attachments HTTP/1.1\r\nHost: ${host}\r\nAuthorization: Bearer ${installer}\r\nContent-Type: multipart/form-data; boundary=${boundary}\r\nContent-Length: 5000000\r\n\r\n${head}`),
       Buffer.from('89504e470d0a1a0a', 'hex'),
       Buffer.alloc(64 * 1024, 1),
     ]);

@@ -20,7 +20,7 @@ describe('in one process', () => {
   let weir: TestWeir;
   let accounts: Record<Role, Account>;
   let leads: Account[];
-  const rows = <T>(sql: string, replacements: unknown[] = []) => weir.runtime.db.sequelize.query<T>(sql, { type: QueryTypes.SELECT, replacements });
+  const rows = <T extends object = Record<string, unknown>>(sql: string, replacements: unknown[] = []): Promise<T[]> => weir.runtime.db.sequelize.query<T>(sql, { type: QueryTypes.SELECT, replacements });
 
   beforeAll(async () => {
     weir = await startWeir();

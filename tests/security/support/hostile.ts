@@ -91,11 +91,14 @@ export const arbitraries = {
 
 
 
-  /** A site id made of path and SQL fragments, quoted so that YAML reads it as one string. */
-  hostileSiteId: fc.array(fc.oneof(fc.constantFrom(...ID_FRAGMENTS), fc.string({ maxLength: 6 })), { minLength: 1, maxLength: 4 }).map((parts) => FIXTURE.replace('id: mill-lane-bakery', `id: ${JSON.stringify(parts.join(''))}`)),
+  /** A site id with at least one path or SQL fragment in it, quoted so that YAML reads one string. */
+  hostileSiteId: fc.tuple(fc.string({ maxLength: 6 }), fc.constantFrom(...ID_FRAGMENTS), fc.string({ maxLength: 6 })).map((parts) => FIXTURE.replace('id: mill-lane-bakery', `id: ${JSON.stringify(parts.join(''))}`)),
 
-  /** One of the route-id fragments, or random text, for a path segment. */
-  hostileSegment: fc.oneof(fc.constantFrom(...ID_FRAGMENTS, '0', '-1', '1.5', '1e3', '0x10', '99999999999999999999', ' 1', '1 ', '١'), fc.string({ minLength: 1, maxLength: 30 })),
+  /**
+   * A path segment that names nothing: a fragment, an odd number, or random text. Plain digits
+   * are left out, since they may be the id of a real revision.
+   */
+  hostileSegment: fc.oneof(fc.constantFrom(...ID_FRAGMENTS, '0', '-1', '1.5', '1e3', '0x10', '99999999999999999999', ' 1', '1 ', '١'), fc.string({ minLength: 1, maxLength: 30 }).filter((s) => !/^\d+$/.test(s))),
 
   /** JSON that is not a review body: anything fast-check makes, minus the two valid shapes. */
   notAReview: fc.jsonValue({ maxDepth: 4 }).filter((v) => !(v && typeof v === 'object' && !Array.isArray(v) && ['approve', 'return'].includes((v as { decision?: unknown }).decision as string))),
