@@ -124,6 +124,11 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
     await bare.stop();
     bare = null;
 
+    // One client alone: the list's own service time, without queueing behind the others.
+    const single = await load({ ...listOpts, connections: 1, duration: Math.max(2, duration / 2) });
+    notes.push(`list, 1 connection: ${describe(single)}`);
+    figures.push({ bench: BENCH, figure: `GET ${listPath}, 1 connection`, value: `p50 ${single.p50} ms, p99 ${single.p99} ms`, result: 'INFO', note: `${fmt.int(single.rps)} req/s with one client` });
+
     // Single revisions, picked at random (seeded) over the whole history.
     const rng = createRng(seed + 1);
     const revisionPath = () => `/api/revisions/${rng.int(1, revisions)}`;

@@ -14,11 +14,16 @@ import { outDir, run } from './lib/processes.ts';
 import { renderMarkdown, renderTable, type Figure } from './lib/report.ts';
 import { benchReviewer } from './reviewer.ts';
 
-const npm = process.platform === 'win32' ? 'npm.cmd' : 'npm';
 const BENCHES = ['check', 'cold-start', 'engine', 'api', 'reviewer'] as const;
 type BenchName = (typeof BENCHES)[number];
 
+const USAGE = `usage: npm run bench [-- [--quick] [--no-build] [--only ${BENCHES.join(',')}]]
+  --quick     smaller sizes, fewer runs (about 3 minutes instead of about 8)
+  --no-build  time what is in dist/ as it is
+  --only      run only the named benches`;
+
 function parseArgs(argv: string[]) {
+  if (argv.includes('--help') || argv.includes('-h')) return { help: true as const };
   const quick = argv.includes('--quick');
   const build = !argv.includes('--no-build');
   let only: BenchName[] = [...BENCHES];
@@ -50,7 +55,7 @@ async function buildAll(only: BenchName[]): Promise<string[]> {
   for (const [script, needed] of BUILDS) {
     if (!needed.some((b) => only.includes(b))) continue;
     const t0 = Date.now();
-    const res = await run(npm, ['run', '-s', script]);
+    const res = await run('npm', ['run', '-s', script]);
     notes.push(res.code === 0 ? `built: npm run ${script} (${((Date.now() - t0) / 1000).toFixed(0)} s)` : `npm run ${script} failed (exit ${res.code}); timing what is in dist/: ${(res.stderrHead || res.stdoutHead).trim().split('\n').slice(-3).join(' | ')}`);
   }
   return notes;
@@ -58,8 +63,12 @@ async function buildAll(only: BenchName[]): Promise<string[]> {
 
 async function main() {
   const args = parseArgs(process.argv.slice(2));
+  if ('help' in args) {
+    console.log(USAGE);
+    return;
+  }
   if ('error' in args) {
-    console.error(args.error);
+    console.error(`${args.error}\n${USAGE}`);
     process.exitCode = 2;
     return;
   }
@@ -107,6 +116,7 @@ async function main() {
   await step('reviewer', async () => {
     const { figures: got, notes } = await benchReviewer({ quick, seed: SEED, bases });
     extra.push(...notes);
+    if (notes.length) console.log(notes.join('\n'));
     return got;
   });
 

@@ -23,8 +23,8 @@ export function countFindings(findings: readonly Finding[]) {
  * The whole check of one site file, as the CLI, the server and the reviewer run it: YAML, then
  * the schema, then (only for a file that passed both) every rule. Never throws.
  */
-export function checkSite(text: string): SiteCheck {
-  const parsed = parseSite(text);
+export function checkSite(text: string, options: { careful?: boolean } = {}): SiteCheck {
+  const parsed = parseSite(text, options);
   let findings = parsed.findings;
   let summary: SiteSummary | null = null;
   if (parsed.site) {

@@ -7,6 +7,7 @@ import { repoRoot } from './processes.ts';
 interface ProfileNode {
   id: number;
   callFrame: { functionName: string; url: string; lineNumber: number };
+  children?: number[];
 }
 export interface CpuProfile {
   nodes: ProfileNode[];
@@ -32,7 +33,7 @@ export function areaOf(url: string, fn: string): string {
  * Self time per area and per function, as report lines. `areas` maps a frame to an area; a
  * bundle (dist/server.js) has no package paths, so its frames all land in one area.
  */
-export function summariseProfile(profile: CpuProfile | string, { top = 15, areas = areaOf, skipIdle = true } = {}): string[] {
+export function summariseProfile(profile: CpuProfile | string, { top = 15, areas = areaOf, skipIdle = true, ownTop = 0 } = {}): string[] {
   const prof: CpuProfile = typeof profile === 'string' ? JSON.parse(readFileSync(profile, 'utf8')) : profile;
   const byId = new Map(prof.nodes.map((n) => [n.id, n]));
   const selfUs = new Map<number, number>();
@@ -55,5 +56,28 @@ export function summariseProfile(profile: CpuProfile | string, { top = 15, areas
   for (const [a, us] of [...areaTotals].sort((x, y) => y[1] - x[1]).slice(0, 12)) lines.push(`    ${pct(us)}  ${a}`);
   lines.push('  top functions (self time):');
   for (const [k, us] of [...fnTotals].sort((x, y) => y[1] - x[1]).slice(0, top)) lines.push(`    ${pct(us)}  ${k}`);
+  if (ownTop > 0) {
+    lines.push("  our own functions, inclusive time (with what they call; a caller's share includes its callees'):");
+    for (const [k, us] of [...ownInclusive(prof, byId)].sort((x, y) => y[1] - x[1]).slice(0, ownTop)) lines.push(`    ${pct(us)}  ${k}`);
+  }
   return lines;
+}
+
+const isOwn = (url: string) => url.startsWith('file://') && !url.includes('/node_modules/') && /\/(shared|server|cli|dist)\//.test(url);
+
+/** Time spent inside each of the project's own functions, callees included, once per sample. */
+function ownInclusive(prof: CpuProfile, byId: Map<number, ProfileNode>): Map<string, number> {
+  const parent = new Map<number, number>();
+  for (const n of prof.nodes) for (const c of n.children ?? []) parent.set(c, n.id);
+  const totals = new Map<string, number>();
+  for (let i = 0; i < prof.samples.length; i++) {
+    const seen = new Set<string>();
+    for (let id: number | undefined = prof.samples[i]; id !== undefined; id = parent.get(id)) {
+      const { functionName, url, lineNumber } = byId.get(id)!.callFrame;
+      if (!isOwn(url) || !functionName) continue;
+      seen.add(`${functionName}  ${relative(repoRoot, new URL(url).pathname)}:${lineNumber + 1}`);
+    }
+    for (const k of seen) totals.set(k, (totals.get(k) ?? 0) + (prof.timeDeltas[i] ?? 0));
+  }
+  return totals;
 }

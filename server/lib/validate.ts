@@ -12,6 +12,29 @@ const describe = (errors: ErrorObject[] | null | undefined) =>
     message: e.keyword === 'additionalProperties' ? `unknown field "${(e.params as { additionalProperty: string }).additionalProperty}"` : (e.message ?? 'is not valid'),
   }));
 
+/**
+ * The first value no field of this API can use, with its path: a string (or key) holding a NUL,
+ * which Sequelize's SQLite dialect would write into the SQL text of a WHERE clause, where it ends
+ * the statement early; or a number that is not finite, which ajv's type coercion lets through
+ * from a query string ("Infinity", "1e400") without applying minimum and maximum.
+ */
+function unusable(value: unknown, at: string[] = []): { path: string; message: string } | null {
+  if (typeof value === 'string') return value.includes('\u0000') ? { path: at.join('.'), message: 'must not contain a NUL character' } : null;
+  if (typeof value === 'number') return Number.isFinite(value) ? null : { path: at.join('.'), message: 'must be a finite number' };
+  if (!value || typeof value !== 'object') return null;
+  for (const [key, item] of Object.entries(value)) {
+    if (key.includes('\u0000')) return { path: [...at, key].join('.'), message: 'must not contain a NUL character' };
+    const found = unusable(item, [...at, key]);
+    if (found) return found;
+  }
+  return null;
+}
+
+function refuseUnusable(value: unknown, code: 'invalid-body' | 'invalid-query', message: string) {
+  const found = unusable(value);
+  if (found) throw new AppError(400, code, message, [found]);
+}
+
 export interface Checker<T> {
   (value: unknown): T;
 }
@@ -22,6 +45,7 @@ export function bodyChecker<T>(schema: JSONSchemaType<T>): Checker<T> {
   return (value) => {
     if (value === undefined) throw new AppError(400, 'invalid-body', 'the request needs a JSON body (Content-Type: application/json)');
     if (!validate(value)) throw new AppError(400, 'invalid-body', 'the request body is not valid', describe(validate.errors));
+    refuseUnusable(value, 'invalid-body', 'the request body is not valid');
     return value;
   };
 }
@@ -33,6 +57,7 @@ export function queryChecker<T>(schema: JSONSchemaType<T>): Checker<T> {
     // Express 5 re-parses req.query on each read: validate (and coerce) a copy.
     const copy = { ...(value as object) };
     if (!validate(copy)) throw new AppError(400, 'invalid-query', 'the query parameters are not valid', describe(validate.errors));
+    refuseUnusable(copy, 'invalid-query', 'the query parameters are not valid');
     return copy as T;
   };
 }

@@ -2,6 +2,7 @@ import { LineCounter, parseDocument, type Document, type YAMLError } from 'yaml'
 import { createLocator, formatPath, type Locator, type PathSegment } from './locate.ts';
 import type { Finding, Site } from './types.ts';
 import { validateSite } from './site-validator.generated.js';
+import { fastRead } from './fast-read.ts';
 
 /** Site files are a few kilobytes; anything this big is not one. */
 export const MAX_SITE_TEXT_CHARS = 1_000_000;
@@ -141,9 +142,10 @@ function schemaFinding(error: AjvError, data: unknown, locate: Locator): Finding
 
 /**
  * Reads a site file: YAML text to data, then the schema. Never throws: every problem, however
- * strange the input, comes back as a finding with a 1-based line and column.
+ * strange the input, comes back as a finding with a 1-based line and column. Plain, valid files
+ * take the fast reading (fast-read.ts); `careful: true` forces the `yaml` package's reading.
  */
-export function parseSite(text: string): ParsedSite {
+export function parseSite(text: string, options: { careful?: boolean } = {}): ParsedSite {
   if (typeof text !== 'string') {
     return { data: null, site: null, findings: [{ ruleId: 'yaml-syntax', severity: 'error', message: 'the site file is not text', path: '', line: 1, column: 1 }], locate: noLocation };
   }
@@ -152,6 +154,15 @@ export function parseSite(text: string): ParsedSite {
       data: null, site: null, locate: noLocation,
       findings: [{ ruleId: 'yaml-syntax', severity: 'error', message: `the file is ${text.length} characters long; a site file may have at most ${MAX_SITE_TEXT_CHARS}`, path: '', line: 1, column: 1 }],
     };
+  }
+  if (options.careful !== true) {
+    const fast = fastRead(text);
+    if (fast?.locate) {
+      let valid = false;
+      try { valid = validateSite(fast.data) as boolean; } catch { valid = false; }
+      // Only a clean reading is kept; any problem is reported by the careful reading below.
+      if (valid) return { data: fast.data, site: fast.data as Site, findings: [], locate: fast.locate };
+    }
   }
   const lineCounter = new LineCounter();
   let doc: Document;

@@ -11,9 +11,10 @@ import { accountsByRole, account, push, siteText, startWeir, state, type Account
 import { ABSURD, arbitraries, deepJson, deepNesting, FIXTURE, HTML_NAMES, ID_FRAGMENTS, NUMERIC_FIELDS, withNumber } from './support/hostile.ts';
 
 // Enough runs to meet each kind of input several times; the whole folder stays well under two
-// minutes on two cores.
-const RUNS = { numRuns: 40 };
-const FEW = { numRuns: 12 };
+// minutes on two cores. WEIR_FUZZ_RUNS raises them for a longer hunt.
+const scale = Math.max(1, Number(process.env.WEIR_FUZZ_RUNS ?? 40) / 40);
+const RUNS = { numRuns: Math.round(40 * scale) };
+const FEW = { numRuns: Math.round(12 * scale) };
 
 let weir: TestWeir;
 let accounts: Record<Role, Account>;
@@ -242,6 +243,32 @@ describe('POST /api/auth/login', () => {
   });
 });
 
+describe('NUL characters and infinite numbers', () => {
+  // SQLite reads a NUL in the SQL text as the end of the statement: a NUL that reached a WHERE
+  // clause was a 500 (SQLITE_ERROR "unrecognized token") before server/lib/validate.ts refused it.
+  it('When a sign-in, a search or a change-log filter holds a NUL, or a page number is infinite, then 400 naming the field', async () => {
+    for (const [email, password] of [['\u0000', ' '], ['lead@example.test\u0000', 'x'], ['a@example.test', 'pass\u0000word']]) {
+      const res = await api().post('/api/auth/login').send({ email, password });
+      expectRefused(res, [400, 401]);
+    }
+    const nul = await api().post('/api/auth/login').send({ email: '\u0000', password: 'x' });
+    expect(nul.body.error.details).toEqual([{ path: 'email', message: 'must not contain a NUL character' }]);
+    for (const url of ['/api/sites?q=%00', '/api/sites?q=mill%00', '/api/audit?actor=a%00b', '/api/audit?site=mill%00', '/api/audit?action=revision%00.*', '/api/audit.csv?actor=%00', '/api/audit.csv?site=%00']) {
+      const res = await api().get(url).set(accounts.lead.auth);
+      expectRefused(res, [400]);
+      expect(res.body.error.code, url).toBe('invalid-query');
+    }
+    // ajv coerces "Infinity" and "1e400" to a number and then skips minimum and maximum.
+    for (const url of ['/api/sites?page=Infinity', '/api/sites?limit=1e400', '/api/audit?page=-Infinity', '/api/audit?limit=Infinity']) {
+      const res = await api().get(url).set(accounts.lead.auth);
+      expectRefused(res, [400]);
+      expect(res.body.error.details[0].message, url).toMatch(/finite|must be/);
+    }
+    const admin = await api().post('/api/users').set(accounts.admin.auth).send({ email: 'nul\u0000@example.test', name: 'N', role: 'lead', password: 'long-enough-1' });
+    expectRefused(admin, [400]);
+  });
+});
+
 describe('POST /api/sites/:id/attachments', () => {
   const upload = (site: string, file: Buffer, filename: string, contentType: string, caption?: string) => {
     const req = api().post(`/api/sites/${site}/attachments`).set(accounts.installer.auth);
@@ -254,9 +281,10 @@ describe('POST /api/sites/:id/attachments', () => {
     // Random bytes never start with the PNG, JPEG or PDF signature by chance (8, 3 and 5 fixed bytes).
     await fc.assert(fc.asyncProperty(arbitraries.randomBytes, fc.constantFrom('image/png', 'image/jpeg', 'application/pdf', 'text/html', 'application/octet-stream'), hostileName, async (bytes, type, name) => {
       const res = await upload('mill-lane-bakery', bytes, name.replace(/[\r\n"]/g, '_') || 'x', type);
-      // A name with a NUL or other control byte can already break the part header (400).
+      // A name with a NUL or other control byte can already break the part header, and a name
+      // that is only a path ("\\", "../") is read as no file at all: both are 400.
       expectRefused(res, [400, 415]);
-      expect(res.body.error.code).toMatch(/^(unsupported-file-type|invalid-upload)$/);
+      expect(res.body.error.code).toMatch(/^(unsupported-file-type|invalid-upload|file-required)$/);
     }), RUNS);
   });
 
