@@ -26,6 +26,13 @@ describe('export-limit-over-agreement', () => {
     expect(found[0].hint).toContain('kW typed as W?');
   });
 
+  it('gives no W hint when the value is only a little over the agreement (6 for 5 kW)', () => {
+    // 6/1000 would fit, but 6 is a wrong number, not 6 W: the hint would mislead.
+    const found = over(mutated(baseThreePhaseSite(), (s) => { s.agreement.exportLimitKw = 5; s.export.limitKw = 6; }));
+    expect(found).toHaveLength(1);
+    expect(found[0].hint ?? '').not.toContain('kW typed as W?');
+  });
+
   it('gives no W hint when even the value /1000 exceeds the agreement (zero export, limit 5 kW)', () => {
     const found = over(mutated(baseThreePhaseSite(), (s) => { s.agreement.exportLimitKw = 0; s.export.limitKw = 5; }));
     expect(found).toHaveLength(1);

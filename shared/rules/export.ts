@@ -13,7 +13,9 @@ export const exportLimitOverAgreement = defineRule({
     return [{
       at: ['export', 'limitKw'],
       message: `export.limitKw ${fmt(limit, 3)} kW is more than the agreed ${fmt(agreed, 3)} kW`,
-      hint: limit / 1000 <= agreed ? `kW typed as W? ${fmt(limit, 3)} W is ${fmt(limit / 1000, 3)} kW` : 'set the gateway\'s limit at or below the agreement',
+      // The W hint only for a slip of units: /1000 fits, and the value is far above the agreement
+      // (6 for 5 kW is a wrong number, not watts).
+      hint: limit / 1000 <= agreed && limit >= 100 * agreed ? `kW typed as W? ${fmt(limit, 3)} W is ${fmt(limit / 1000, 3)} kW` : 'set the gateway\'s limit at or below the agreement',
     }];
   },
 });

@@ -2,12 +2,15 @@
 // runs) copies the live database while pushes are in flight. The copy must pass
 // `PRAGMA integrity_check`, open as the database of a second server, verify its change log and
 // hold every push acknowledged before the backup began.
-import { existsSync, mkdirSync, mkdtempSync, renameSync, rmSync } from 'node:fs';
+import { execa } from 'execa';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import sqlite3 from 'sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { backupDatabase } from '../../server/backup.ts';
 import { FIXTURE } from './support/hostile.ts';
-import { getJson, login, pushYaml, serverCommand, startRealServer, type RealServer } from './support/real-server.ts';
+import { getJson, login, pushYaml, ROOT, SERVER_JS, serverCommand, serverEnv, sleep, startRealServer, type RealServer } from './support/real-server.ts';
 import { integrityCheck, query } from './support/sqlite.ts';
 
 const variant = (n: number) => FIXTURE.replace('id: mill-lane-bakery', `id: backup-${n % 4}`).replace('serial: EM-20931', `serial: EM-${200000 + n}`);
@@ -114,3 +117,57 @@ describe('online backup', () => {
     expect(none.stderr).not.toMatch(/^\s+at /m);
   });
 });
+
+describe('a backup cut short', () => {
+  let bigDir: string;
+
+  beforeAll(async () => {
+    // Any SQLite file will do for the copy itself: ~80 MB of random rows, so the copy takes a while.
+    bigDir = path.join(work, 'big');
+    mkdirSync(bigDir);
+    const file = path.join(bigDir, 'weir.sqlite');
+    await new Promise<void>((resolve, reject) => {
+      const db = new sqlite3.Database(file, (err) => {
+        if (err) return reject(err);
+        db.exec('PRAGMA journal_mode = WAL; CREATE TABLE t (b BLOB); WITH RECURSIVE c(x) AS (SELECT 1 UNION ALL SELECT x + 1 FROM c WHERE x < 80000) INSERT INTO t SELECT randomblob(1000) FROM c;', (e) => db.close(() => (e ? reject(e) : resolve())));
+      });
+    });
+  });
+
+  it('When the backup process is killed half-way, then no file is left under the name asked for', async () => {
+    const target = path.join(work, 'cut', 'weir-backup.sqlite');
+    const child = execa('node', [SERVER_JS, 'backup', target], { cwd: ROOT, env: serverEnv(bigDir), reject: false });
+    // Kill it once the copy has begun (a temporary file appears beside the target).
+    const deadline = Date.now() + 20_000;
+    while (Date.now() < deadline && !(existsSync(path.dirname(target)) && readdirSync(path.dirname(target)).length > 0)) await sleep(5);
+    child.kill('SIGKILL');
+    const result = await child;
+    expect(result.exitCode === 0, 'the backup finished before it could be killed: make the file bigger').toBe(false);
+    expect(existsSync(target)).toBe(false);
+  });
+
+  it('When a backup runs, then the target name appears only once the copy is whole, and nothing temporary is left', async () => {
+    const target = path.join(work, 'whole', 'weir-backup.sqlite');
+    const sizes: number[] = [];
+    let running = true;
+    const watcher = (async () => {
+      while (running) {
+        try {
+          sizes.push(statSync(target).size);
+        } catch {
+          // not there yet
+        }
+        await sleep(2);
+      }
+    })();
+    await backupDatabase(path.join(bigDir, 'weir.sqlite'), target);
+    running = false;
+    await watcher;
+    const final = statSync(target).size;
+    expect(final).toBeGreaterThan(50 * 1024 * 1024);
+    expect(sizes.filter((n) => n !== final), 'the target was seen before it was complete').toEqual([]);
+    expect(readdirSync(path.dirname(target))).toEqual(['weir-backup.sqlite']);
+    expect(await integrityCheck(target)).toEqual(['ok']);
+  });
+});
+
