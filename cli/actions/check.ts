@@ -13,7 +13,7 @@ export type CheckFormat = 'human' | 'json' | 'sarif';
 export interface CheckOptions {
   format: CheckFormat;
   explain?: boolean;
-  /** false with --no-cache. */
+  /** true with --cache. */
   cache?: boolean;
   color?: boolean;
 }
@@ -32,7 +32,7 @@ export function countTotals(files: readonly CheckedFile[]) {
 
 export async function runCheck(paths: string[], options: CheckOptions): Promise<void> {
   // Gather first, print once: one write (and one JSON.stringify) for the whole report.
-  const checked = await checkFiles(await resolveSiteFiles(paths), { cache: options.cache !== false && !options.explain });
+  const checked = await checkFiles(await resolveSiteFiles(paths), { cache: options.cache === true && !options.explain });
   const totals = countTotals(checked);
 
   let out: string;

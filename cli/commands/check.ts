@@ -7,7 +7,7 @@ export function checkCommand(): Command {
     .argument('[paths...]', 'site files, folders (searched for *.yaml and *.yml) or globs; default: the current folder')
     .addOption(formatOption(['human', 'json', 'sarif']))
     .option('--explain', 'also show the summary figures of each site (JSON: as `figures`)')
-    .option('--no-cache', 'check every file afresh (also WEIR_NO_CACHE=1); see below')
+    .option('--cache', 'reuse the results of earlier checks of the very same text; see below')
     .addHelpText('after', `
 Output
   human  one line per finding, \`file:line:col: severity rule-id message\`, then a summary
@@ -17,7 +17,7 @@ Output
          \`path\` is the file as given, relative to the current folder
   sarif  SARIF 2.1.0 for CI annotations
 
-Cache
+Cache (off unless --cache is given; WEIR_NO_CACHE=1 turns it off again)
   Results are kept in $XDG_CACHE_HOME/weir (default ~/.cache/weir), keyed by each file's exact
   text and the engine build, so a second check reads only the files that changed.
 

@@ -293,7 +293,7 @@ describe('the check cache', () => {
   const cacheHome = path.join(tmp.dir, 'cache-home');
   const cacheFile = path.join(cacheHome, 'weir', 'check-cache.json');
   const env = { XDG_CACHE_HOME: cacheHome };
-  const args = ['check', '--format', 'json', 'examples'];
+  const args = ['check', '--cache', '--format', 'json', 'examples'];
 
   it('is written on the first run (0600) and gives the same report on the next', async () => {
     const cold = await weir(args, { env });
@@ -302,11 +302,11 @@ describe('the check cache', () => {
     const warm = await weir(args, { env });
     expect(warm.exitCode).toBe(cold.exitCode);
     expect(warm.stdout).toBe(cold.stdout);
-    const fresh = await weir([...args, '--no-cache'], { env });
+    const fresh = await weir(['check', '--format', 'json', 'examples'], { env });
     expect(fresh.stdout).toBe(cold.stdout);
   });
 
-  it('is read, and --no-cache or WEIR_NO_CACHE go around it', async () => {
+  it('is read with --cache, and a run without it or with WEIR_NO_CACHE goes around it', async () => {
     // Plant a false result for one file's exact text: only a run that reads the cache can show it.
     const cache = JSON.parse(readFileSync(cacheFile, 'utf8'));
     const text = readFileSync(path.join(EXAMPLES, 'quarry-row-cottage.yaml'), 'utf8');
@@ -314,19 +314,19 @@ describe('the check cache', () => {
     expect(cache.entries[key]).toBeDefined();
     cache.entries[key] = { s: 'planted', f: [] };
     writeFileSync(cacheFile, JSON.stringify(cache));
-    const file = ['check', '--format', 'json', 'examples/quarry-row-cottage.yaml'];
+    const file = ['check', '--cache', '--format', 'json', 'examples/quarry-row-cottage.yaml'];
     expect(JSON.parse((await weir(file, { env })).stdout).files[0].site).toBe('planted');
-    expect(JSON.parse((await weir([...file, '--no-cache'], { env })).stdout).files[0].site).toBe('quarry-row-cottage');
+    expect(JSON.parse((await weir(file.filter((a) => a !== '--cache'), { env })).stdout).files[0].site).toBe('quarry-row-cottage');
     expect(JSON.parse((await weir(file, { env: { ...env, WEIR_NO_CACHE: '1' } })).stdout).files[0].site).toBe('quarry-row-cottage');
   });
 
   it('is ignored when another engine build wrote it, or when it is not JSON', async () => {
     const cache = JSON.parse(readFileSync(cacheFile, 'utf8'));
     writeFileSync(cacheFile, JSON.stringify({ ...cache, engine: 'another-build' }));
-    const file = ['check', '--format', 'json', 'examples/quarry-row-cottage.yaml'];
+    const file = ['check', '--cache', '--format', 'json', 'examples/quarry-row-cottage.yaml'];
     expect(JSON.parse((await weir(file, { env })).stdout).files[0].site).toBe('quarry-row-cottage');
     writeFileSync(cacheFile, '{ not json');
-    const r = await weir(['check', '--format', 'json', 'examples/heron-wharf-chandlery.yaml'], { env });
+    const r = await weir(['check', '--cache', '--format', 'json', 'examples/heron-wharf-chandlery.yaml'], { env });
     expect(r.exitCode).toBe(1);
     const errors = checkSite(readFileSync(path.join(EXAMPLES, 'heron-wharf-chandlery.yaml'), 'utf8')).counts.error;
     expect(errors).toBeGreaterThan(0);
