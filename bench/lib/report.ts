@@ -29,7 +29,7 @@ export function renderTable(figures: readonly Figure[]): string {
     head: ['bench', 'figure', 'value', 'baseline', 'ratio', 'budget', 'result'],
     style: { head: [], border: [] },
     wordWrap: true,
-    colWidths: [14, 38, 16, 16, 9, 18, 8],
+    colWidths: [14, 44, 16, 16, 9, 18, 8],
   });
   for (const f of figures) table.push([f.bench, f.figure, f.value, f.baseline ?? '', f.ratio ?? '', f.budget ?? '', f.result]);
   const notes = figures.filter((f) => f.note).map((f) => `- ${f.bench} / ${f.figure}: ${f.note}`);

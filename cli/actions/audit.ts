@@ -15,6 +15,8 @@ export async function runAuditVerify(options: { server?: string; format?: string
   const c = createColour(process.stdout, options);
   if (answer.ok) {
     process.stdout.write(`${c.green('ok')}: the change log on ${session.server} is intact (${answer.events} events, every hash follows from the one before).\n`);
+    // A chain cannot see its newest events cut off: the head, written down, can.
+    if (answer.headHash) process.stdout.write(`head: event #${answer.events} has hash ${answer.headHash}; keep it, and a later verify with fewer events or without this hash means events were removed.\n`);
     return;
   }
   const bad = answer.firstBadEvent;

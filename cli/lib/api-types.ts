@@ -59,5 +59,7 @@ export interface SiteAnswer {
 export interface VerifyAnswer {
   ok: boolean;
   events: number;
+  /** Hash of the last event checked: recorded by the auditor, it shows a later cut-off tail. */
+  headHash?: string;
   firstBadEvent?: { seq: number; reason?: string; message?: string };
 }

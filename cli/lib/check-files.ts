@@ -79,11 +79,17 @@ export interface CheckFilesOptions {
   cache: boolean;
 }
 
+/** The one finding of a file that is not UTF-8: the server would refuse it unread. */
+function notUtf8Result(at: { line: number; column: number }): CheckedText {
+  const finding: Finding = { ruleId: 'yaml-syntax', severity: 'error', message: 'the file is not UTF-8 text: save it as UTF-8 (the server refuses it as it is)', path: '', line: at.line, column: at.column };
+  return { site: null, findings: [finding], summary: null };
+}
+
 export async function checkFiles(files: readonly SiteFile[], options: CheckFilesOptions): Promise<CheckedFile[]> {
-  const read = readSiteFiles(files);
+  const read = readSiteFiles(files, { notUtf8: 'report' });
   const cache = options.cache ? openCheckCache() : null;
   const keys = cache ? read.map((f) => textKey(f.text)) : [];
-  const results: (CheckedText | null)[] = read.map((_, i) => (cache ? cache.get(keys[i]) : null));
+  const results: (CheckedText | null)[] = read.map((f, i) => (f.notUtf8 ? notUtf8Result(f.notUtf8) : cache ? cache.get(keys[i]) : null));
   const missing = results.flatMap((r, i) => (r ? [] : [i]));
   const fresh = await checkTexts(missing.map((i) => read[i].text));
   missing.forEach((fileIndex, k) => {

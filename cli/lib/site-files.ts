@@ -17,6 +17,8 @@ export interface SiteFile {
 
 export interface ReadSiteFile extends SiteFile {
   text: string;
+  /** Set when the bytes are not UTF-8 (only with `notUtf8: 'report'`): where the first bad ones are. */
+  notUtf8?: { line: number; column: number };
 }
 
 const display = (p: string) => p.split(path.sep).join('/');
@@ -115,13 +117,51 @@ export async function resolveSiteFiles(inputs: readonly string[], cwd: string = 
   return out;
 }
 
-/** Reads every file; the first one that cannot be read stops the command (exit 2). */
-export function readSiteFiles(files: readonly SiteFile[]): ReadSiteFile[] {
-  return files.map((f) => {
+const strictUtf8 = new TextDecoder('utf-8', { fatal: true });
+
+/** Where a file's first bytes that are not UTF-8 are, 1-based (line and column of the text before them). */
+function firstBadByte(bytes: Buffer): { line: number; column: number } {
+  // The longest prefix that decodes; a cut-off character at its end does not count as bad.
+  let lo = 0;
+  let hi = bytes.length;
+  while (lo < hi) {
+    const mid = Math.ceil((lo + hi) / 2);
     try {
-      return { ...f, text: readFileSync(f.absolute, 'utf8') };
+      // A fresh decoder each time: streaming leaves state behind in the one used.
+      new TextDecoder('utf-8', { fatal: true }).decode(bytes.subarray(0, mid), { stream: true });
+      lo = mid;
+    } catch {
+      hi = mid - 1;
+    }
+  }
+  // Streaming, the decoder holds back a cut-off character at the end: the text before the bad bytes.
+  const before = new TextDecoder('utf-8', { fatal: true }).decode(bytes.subarray(0, lo), { stream: true }).split('\n');
+  return { line: before.length, column: [...before[before.length - 1]].length + 1 };
+}
+
+export interface ReadSiteFileOptions {
+  /**
+   * Bytes that are not UTF-8 (the server refuses such a file with 400 invalid-encoding): by
+   * default they stop the command; `report` keeps the file with `notUtf8` set, for a finding.
+   */
+  notUtf8?: 'stop' | 'report';
+}
+
+/** Reads every file; the first one that cannot be read stops the command (exit 2). */
+export function readSiteFiles(files: readonly SiteFile[], options: ReadSiteFileOptions = {}): ReadSiteFile[] {
+  return files.map((f) => {
+    let bytes: Buffer;
+    try {
+      bytes = readFileSync(f.absolute);
     } catch (err) {
       throw new CliError(`cannot read ${f.path}: ${ioMessage(err)}`);
+    }
+    try {
+      return { ...f, text: strictUtf8.decode(bytes) };
+    } catch {
+      const at = firstBadByte(bytes);
+      if (options.notUtf8 === 'report') return { ...f, text: bytes.toString('utf8'), notUtf8: at };
+      throw new CliError(`cannot read ${f.path}: it is not UTF-8 text (line ${at.line}, column ${at.column})`, 2, 'save the file as UTF-8');
     }
   });
 }

@@ -100,6 +100,15 @@ describe('online backup', () => {
     expect(next.status).toBe(201);
   });
 
+  it('When an operator runs `npm run backup -- <file>` against the live folder, then the same consistent copy', async () => {
+    const target = path.join(work, 'npm-backup.sqlite');
+    const res = await execa('npm', ['run', '--silent', 'backup', '--', target], { cwd: ROOT, env: serverEnv(liveDir), reject: false, timeout: 60_000 });
+    expect(res.exitCode, res.stderr).toBe(0);
+    expect(await integrityCheck(target)).toEqual(['ok']);
+    const [{ n }] = await query<{ n: number }>(target, 'SELECT COUNT(*) AS n FROM revisions');
+    expect(n).toBeGreaterThanOrEqual(acknowledgedBefore.length);
+  });
+
   it('When the target exists already or no database is there, then a clear message and a non-zero exit, nothing overwritten', async () => {
     const existing = path.join(work, 'existing.sqlite');
     expect((await serverCommand(['backup', existing], liveDir)).exitCode).toBe(0);

@@ -2,7 +2,7 @@
 // and file name that carry HTML and script are shown as text on every page that shows them, run
 // nothing, and the pages are served with a Content-Security-Policy that would block inline script
 // anyway. Headless Chromium against the real server, with the built reviewer (npm run build:web).
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,6 +11,7 @@ import { FIXTURE, HTML_NAMES } from './support/hostile.ts';
 import { login, pushYaml, ROOT, serverCommand, startRealServer, type RealServer } from './support/real-server.ts';
 
 const WEB = path.join(ROOT, 'dist', 'web');
+const SHOTS = path.join(ROOT, '.screenshots');
 const SITE_ID = 'markup-works';
 const SITE_NAME = HTML_NAMES[1];
 const MESSAGE = HTML_NAMES[0];
@@ -80,6 +81,9 @@ describe('markup in the reviewer', () => {
     await browser.page.getByText(SITE_NAME).first().waitFor();
     await browser.page.getByText(CAPTION).first().waitFor();
     await expectNothingRan();
+    // For a person to look at (git-ignored): the markup shows as text.
+    mkdirSync(SHOTS, { recursive: true });
+    await browser.page.screenshot({ path: path.join(SHOTS, 'security-markup-site.png'), fullPage: true });
   });
 
   it('When the review page shows the push message and the site file, then they are text and nothing runs', async () => {

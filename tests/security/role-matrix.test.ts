@@ -153,6 +153,16 @@ describe('route × role (and no token)', () => {
     }
   }
 
+  it('When nobody signed in sends a large site file or upload, then 401 before the body is read (not 413 or 422)', async () => {
+    const yaml = await request(weir.app).post('/api/revisions').set('Content-Type', 'application/yaml').send('x'.repeat(600 * 1024));
+    expect(yaml.status).toBe(401);
+    const upload = await request(weir.app).post('/api/sites/mill-lane-bakery/attachments').attach('file', Buffer.alloc(11 * 1024 * 1024), { filename: 'big.png', contentType: 'image/png' });
+    expect(upload.status).toBe(401);
+    // A role that may not upload is turned away before the file is read, too.
+    const auditor = await request(weir.app).post('/api/sites/mill-lane-bakery/attachments').set(accounts.auditor.auth).attach('file', Buffer.alloc(11 * 1024 * 1024), { filename: 'big.png', contentType: 'image/png' });
+    expect(auditor.status).toBe(403);
+  });
+
   it('When a GET route is asked with HEAD and no token, then 401 as for GET', async () => {
     for (const route of (ROUTES as readonly RouteSpec[]).filter((r) => r.method === 'GET' && r.permission !== 'public')) {
       const res = await request(weir.app).head(concrete(route.path));

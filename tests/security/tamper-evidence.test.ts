@@ -85,6 +85,8 @@ describe('an untouched log', () => {
     expect(cli.exitCode, cli.stderr).toBe(0);
     expect(cli.stdout).toMatch(/intact/);
     expect(cli.stdout).toContain(String(untouched.events));
+    // The head hash, for the auditor to write down (it is what shows a cut-off tail).
+    expect(cli.stdout).toContain(untouched.headHash);
   });
 });
 
@@ -180,6 +182,9 @@ describe('a tampered log', () => {
       expect(api.headHash).not.toBe(untouched.headHash);
       const json = JSON.parse((await verifyCli('json')).stdout) as Verify;
       expect(json.headHash).toBe(api.headHash);
+      const human = await verifyCli();
+      expect(human.stdout).not.toContain(untouched.headHash);
+      expect(human.stdout).toContain(`#${untouched.events - 2}`);
     } finally {
       await restoreLog();
     }

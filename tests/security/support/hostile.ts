@@ -36,9 +36,28 @@ export const NON_FINITE = ['.nan', '.NaN', '.NAN', '.inf', '-.inf', '+.inf', '.I
 export const ABSURD = ['1e300', '9007199254740993'];
 
 /** Each `key: number` in the fixture, as [offset, key, number text]. */
-export const NUMERIC_FIELDS: [number, string, string][] = [...FIXTURE.matchAll(/\b([A-Za-z]+): (-?\d+(?:\.\d+)?)\b/g)]
+export const NUMERIC_FIELDS: [number, string, string][] = [...FIXTURE.matchAll(/\b([A-Za-z][A-Za-z0-9]*): (-?\d+(?:\.\d+)?)\b/g)]
   .filter((m) => m[1] !== 'weir')
   .map((m) => [m.index! + m[1].length + 2, m[1], m[2]]);
+
+/** A readable path for a numeric field: the block keys above it, the flow mapping it is in, its key. */
+export function fieldLabel([at, key]: [number, string, string]): string {
+  const before = FIXTURE.slice(0, at);
+  const lines = before.split('\n');
+  const line = lines.pop()!;
+  const indent = /^\s*/.exec(line)![0].length;
+  const blocks: string[] = [];
+  let depth = indent;
+  for (const l of lines.reverse()) {
+    const m = /^(\s*)([A-Za-z]\w*):\s*$/.exec(l);
+    if (m && m[1].length < depth) {
+      blocks.unshift(m[2]);
+      depth = m[1].length;
+    }
+  }
+  const parent = [...line.matchAll(/(\w+): [[{]/g)].pop()?.[1];
+  return [...blocks, parent, key].filter(Boolean).join('.');
+}
 
 /** The fixture with the number at `field` replaced by `value`. */
 export function withNumber(field: [number, string, string], value: string): string {
