@@ -96,6 +96,21 @@ describe('forged tokens', () => {
   });
 });
 
+describe('other origins', () => {
+  it('When a page on another origin calls the API or asks first (CORS preflight), then no header lets it read the answer', async () => {
+    const origin = 'http://attacker.example.test';
+    const simple = await api().get('/api/me').set('Origin', origin).set(accounts.lead.auth);
+    const preflight = await api().options('/api/revisions').set('Origin', origin).set('Access-Control-Request-Method', 'POST').set('Access-Control-Request-Headers', 'authorization,content-type');
+    for (const res of [simple, preflight]) {
+      expect(res.headers['access-control-allow-origin']).toBeUndefined();
+      expect(res.headers['access-control-allow-credentials']).toBeUndefined();
+      expect(res.headers['access-control-allow-headers']).toBeUndefined();
+    }
+    // The token travels only in a header a script must set, so no cookie rides along either.
+    expect(simple.headers['set-cookie']).toBeUndefined();
+  });
+});
+
 describe('stale tokens', () => {
   it('When an account is disabled, then its token stops at once and it cannot sign in (same answer as a wrong password)', async () => {
     const created = await api().post('/api/users').set(accounts.admin.auth).send({ email: 'leaver@example.test', name: 'Leaver', role: 'lead', password: PASSWORD }).expect(201);
