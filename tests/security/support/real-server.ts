@@ -1,9 +1,9 @@
 // The real server (dist/server.js, from `npm run build:server`) as a child process: 127.0.0.1, a
-// free port, a data folder of the test's choosing, and kill / restart on that same folder, for
-// the tests that need a process to die (crash safety) or several processes to share one file.
+// port of the system's choosing, a data folder of the test's choosing, and kill / restart on
+// that folder, for the tests that need a process to die (crash safety) or several processes to
+// share one file.
 import { execa, type ResultPromise } from 'execa';
 import { existsSync } from 'node:fs';
-import { createServer } from 'node:net';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -20,17 +20,6 @@ export function assertServerBuilt(): void {
 
 export function assertCliBuilt(): void {
   if (!existsSync(path.join(ROOT, 'dist', 'cli', 'index.js'))) throw new Error('the CLI is not built: run `npm run build:cli` first (npm test does)');
-}
-
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once('error', reject);
-    probe.listen(0, '127.0.0.1', () => {
-      const address = probe.address();
-      probe.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no free port'))));
-    });
-  });
 }
 
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -66,35 +55,39 @@ export interface RealServer {
   kill(signal: 'SIGKILL' | 'SIGTERM'): Promise<void>;
 }
 
-/** Starts `node dist/server.js` on `dataDir` and waits until /api/health answers 200. */
+/**
+ * Starts `node dist/server.js` on `dataDir` with PORT=0 (the system picks a free port, read back
+ * from the first line it prints) and waits until /api/health answers 200.
+ */
 export async function startRealServer(dataDir: string, extra: Record<string, string> = {}): Promise<RealServer> {
   assertServerBuilt();
-  const port = await freePort();
-  const child: ResultPromise = execa('node', [SERVER_JS], { cwd: ROOT, env: serverEnv(dataDir, { PORT: String(port), ...extra }), reject: false, buffer: false, stdout: 'pipe', stderr: 'pipe', cleanup: true });
+  const child: ResultPromise = execa('node', [SERVER_JS], { cwd: ROOT, env: serverEnv(dataDir, { PORT: '0', ...extra }), reject: false, buffer: false, stdout: 'pipe', stderr: 'pipe', cleanup: true });
   let output = '';
+  let exited = false;
   child.stdout?.on('data', (d: Buffer) => { output += d.toString(); });
   child.stderr?.on('data', (d: Buffer) => { output += d.toString(); });
-  let exited = false;
   child.once('exit', () => { exited = true; });
-  const url = `http://127.0.0.1:${port}`;
   const deadline = Date.now() + 30_000;
+  let url: string | null = null;
   for (;;) {
     if (exited) throw new Error(`the server on ${dataDir} exited before serving:\n${output.slice(-3000)}`);
-    try {
-      const res = await fetch(`${url}/api/health`);
-      if (res.status === 200) break;
-    } catch {
-      // not listening yet
+    url ??= /serving on (http:\/\/127\.0\.0\.1:\d+)/.exec(output)?.[1] ?? null;
+    if (url) {
+      try {
+        if ((await fetch(`${url}/api/health`)).status === 200) break;
+      } catch {
+        // not answering yet
+      }
     }
     if (Date.now() > deadline) {
       child.kill('SIGKILL');
       throw new Error(`the server on ${dataDir} never answered /api/health:\n${output.slice(-3000)}`);
     }
-    await sleep(100);
+    await sleep(50);
   }
   return {
     url,
-    port,
+    port: Number(new URL(url).port),
     dataDir,
     child,
     output: () => output,
