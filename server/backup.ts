@@ -4,7 +4,7 @@ import { mkdir, open, rename, rm } from 'node:fs/promises';
 import path from 'node:path';
 import sqlite3 from 'sqlite3';
 
-/** Writes a file's (or folder's) data to the disk: SQLite does not for `VACUUM INTO`'s output. */
+/** Writes a file's (or folder's) data to the disk before it takes the name asked for. */
 async function fsyncPath(file: string) {
   const handle = await open(file, 'r');
   try {
@@ -14,9 +14,50 @@ async function fsyncPath(file: string) {
   }
 }
 
+/** The part of sqlite3's Backup object used here (its type declarations leave it out). */
+interface SqliteBackup {
+  step(pages: number, callback: (err: Error | null) => void): void;
+  finish(callback?: (err: Error | null) => void): void;
+  completed: boolean;
+  failed: boolean;
+}
+
 /**
- * An online copy of the database with `VACUUM INTO`: a consistent snapshot taken inside one read
- * transaction, so the server may keep serving (in WAL mode it does not even wait). The copy is
+ * SQLite's online backup API (sqlite3_backup_init/step/finish, through the sqlite3 package's
+ * `Database#backup`): all pages in one step, so the copy is one consistent snapshot while the
+ * server keeps writing in WAL mode.
+ */
+function onlineBackup(db: sqlite3.Database, target: string): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const backupOf = (db as unknown as { backup(file: string, cb: (err: Error | null) => void): SqliteBackup }).backup.bind(db);
+    const backup = backupOf(target, (openErr) => {
+      if (openErr) return reject(openErr);
+      backup.step(-1, (stepErr) => {
+        if (stepErr || !backup.completed) {
+          backup.finish(() => reject(stepErr ?? new Error('the backup did not complete')));
+          return;
+        }
+        backup.finish((finishErr) => (finishErr ? reject(finishErr) : resolve()));
+      });
+    });
+  });
+}
+
+/** The copy carries the live file's WAL flag; switch it back so the copy is one file on its own. */
+async function selfContained(file: string): Promise<void> {
+  const copy = await new Promise<sqlite3.Database>((resolve, reject) => {
+    const d = new sqlite3.Database(file, sqlite3.OPEN_READWRITE, (err) => (err ? reject(err) : resolve(d)));
+  });
+  try {
+    await new Promise<void>((resolve, reject) => copy.run('PRAGMA journal_mode = DELETE', (err) => (err ? reject(err) : resolve())));
+  } finally {
+    await new Promise<void>((resolve) => copy.close(() => resolve()));
+  }
+}
+
+/**
+ * An online copy of the database with SQLite's backup API: a consistent snapshot, so the server
+ * may keep serving. The copy is
  * written under a temporary name, synced and then renamed, so a backup cut short by a crash or a
  * full disk never leaves a half-written file under the name asked for.
  */
@@ -30,7 +71,8 @@ export async function backupDatabase(databaseFile: string, target: string): Prom
   });
   try {
     db.configure('busyTimeout', 10_000);
-    await new Promise<void>((resolve, reject) => db.run('VACUUM INTO ?', [partial], (err) => (err ? reject(err) : resolve())));
+    await onlineBackup(db, partial);
+    await selfContained(partial);
     await fsyncPath(partial);
     if (existsSync(target)) throw new Error(`${target} exists already: choose a new file name`);
     await rename(partial, target);
