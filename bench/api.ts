@@ -155,6 +155,7 @@ export async function benchApi({ quick, seed, bases }: { quick: boolean; seed: n
   notes.push(...(await profileServer(dataDir, duration, pool)));
   const planned = generateSites(1, seed + 3, bases)[0];
   notes.push(...(await queryPlans(dataDir, revisions, planned.text.replace(`id: ${planned.id}`, `id: ${planned.id}-plan`))));
+  rmSync(dataDir, { recursive: true, force: true }); // a working copy of most of a gigabyte
   return { figures, notes };
 }
 

@@ -102,7 +102,7 @@ async function main() {
   await step('check', () => benchCheckThroughput({ sizes: quick ? [1000, 3000] : [1000, 10_000], runs: quick ? [3, 1] : [5, 3], seed: SEED, bases }));
   await step('cold-start', () => benchColdStart({ runs: quick ? 7 : 15 }));
   await step('engine', async () => {
-    const { figures: got, profile } = await benchEngine({ count: quick ? 300 : 1000, runs: quick ? 3 : 5, seed: SEED, bases });
+    const { figures: got, profile } = await benchEngine({ count: quick ? 300 : 1000, runs: quick ? 5 : 9, seed: SEED, bases });
     extra.push(...profile);
     console.log(profile.join('\n'));
     return got;

@@ -71,7 +71,7 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
   const dir = join(outDir, 'fleet', fleetKey(sites, revisions, seed, bases));
   const file = join(dir, 'weir.sqlite');
   if (existsSync(join(dir, 'complete'))) return { file, sites, revisions, seconds: 0, cached: true };
-  pruneFleets(join(outDir, 'fleet'), 2);
+  pruneFleets(join(outDir, 'fleet'), 1);
   rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
   const t0 = performance.now();
@@ -163,7 +163,7 @@ export async function ensureFleet({ sites, revisions, seed, bases, log = console
   return { file, sites, revisions, seconds, cached: false };
 }
 
-/** A full-size fleet is most of a gigabyte: keep only the `keep` newest besides the one being made. */
+/** A full-size fleet is most of a gigabyte: keep only the `keep` newest (say the quick one) besides the one being made. */
 function pruneFleets(root: string, keep: number) {
   if (!existsSync(root)) return;
   const dirs = readdirSync(root).map((name) => join(root, name)).sort((a, b) => statSync(b).mtimeMs - statSync(a).mtimeMs);
