@@ -175,7 +175,6 @@ async function profileServer(dataDir: string, seconds: number, pool: GeneratedSi
   rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
   const server = await startServer(['--cpu-prof', `--cpu-prof-dir=${dir}`, join(repoRoot, 'dist/server.js')], serverEnv(dataDir, await freePort()));
-  const out: string[] = [];
   try {
     const lead = await signIn(server.url, BENCH_USERS[3].email);
     const installer = await signIn(server.url, BENCH_USERS[0].email);

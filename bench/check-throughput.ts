@@ -26,6 +26,9 @@ export interface CheckOptions {
  * change); one extra row shows unchanged files with it. Its folder is under bench/.out, never the
  * user's own cache.
  */
+/** The range of the runs, so that a noisy machine shows in the report. */
+const spread = (samples: number[]) => `${Math.min(...samples).toFixed(0)}–${Math.max(...samples).toFixed(0)} ms`;
+
 const weirArgs = (bin: string, dir: string, cache = false) => [bin, 'check', '--format', 'json', ...(cache ? ['--cache'] : []), dir];
 const weirEnv = (cache = false): NodeJS.ProcessEnv => {
   const env: NodeJS.ProcessEnv = { ...process.env, XDG_CACHE_HOME: join(outDir, 'cli-cache') };
@@ -94,7 +97,7 @@ export async function benchCheckThroughput(opts: CheckOptions): Promise<Figure[]
       ratio: fmt.ratio(ratio),
       budget: i === 0 ? budgetRatio : undefined,
       result: i === 0 ? atMost(ratio, 1.0) : 'INFO',
-      note: i === 0 ? `medians of ${opts.runs[i]} runs, without --cache; weir ${fmt.int((count / subject.median) * 1000)} files/s, ajv-cli ${fmt.int((count / baseline.median) * 1000)} files/s` : undefined,
+      note: `${i === 0 ? `medians of ${opts.runs[i]} runs, without --cache; ` : ''}weir ${fmt.int((count / subject.median) * 1000)} files/s (runs ${spread(subject.samples)}), ajv-cli ${fmt.int((count / baseline.median) * 1000)} files/s (runs ${spread(baseline.samples)})`,
     });
     if (i === 0) {
       // The same files again with the cache on: what CI sees on a commit that changed nothing.

@@ -4,7 +4,7 @@
 // for a bad option). The table also goes to bench/.out/results.{md,json}.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { cpus } from 'node:os';
+import { cpus, loadavg } from 'node:os';
 import { benchApi } from './api.ts';
 import { benchCheckThroughput } from './check-throughput.ts';
 import { benchColdStart } from './cold-start.ts';
@@ -18,7 +18,7 @@ const BENCHES = ['check', 'cold-start', 'engine', 'api', 'reviewer'] as const;
 type BenchName = (typeof BENCHES)[number];
 
 const USAGE = `usage: npm run bench [-- [--quick] [--no-build] [--only ${BENCHES.join(',')}]]
-  --quick     smaller sizes, fewer runs (about 3 minutes instead of about 8)
+  --quick     smaller sizes, fewer runs (1–3 minutes instead of 3–8; the first run also seeds a fleet)
   --no-build  time what is in dist/ as it is
   --only      run only the named benches`;
 
@@ -86,9 +86,12 @@ async function main() {
     if (!only.includes(name)) return;
     const t0 = Date.now();
     process.stdout.write(`\n== ${name} … `);
+    const loadBefore = loadavg()[0];
     try {
       const got = await fn();
       figures.push(...got);
+      // Other work on the machine makes the figures noisy: say how busy it was.
+      extra.push(`${name}: ${((Date.now() - t0) / 1000).toFixed(0)} s, load average ${loadBefore.toFixed(1)} before, ${loadavg()[0].toFixed(1)} after (${cpus().length} cores)`);
       console.log(`done in ${((Date.now() - t0) / 1000).toFixed(0)} s`);
       console.log(renderTable(got));
     } catch (err) {
