@@ -1,3 +1,4 @@
+import { createSecretKey } from 'node:crypto';
 import jwt from 'jsonwebtoken';
 import type { AuditService } from '../audit/audit.service.ts';
 import type { Config } from '../config.ts';
@@ -16,8 +17,11 @@ interface TokenClaims {
 const unauthenticated = (message: string) => new AppError(401, 'unauthenticated', message);
 
 export function createAuthService({ db, audit, config }: { db: Database; audit: AuditService; config: Config }) {
+  // A KeyObject made once: given a string, jsonwebtoken tries it as a PEM public key (and fails)
+  // on every call before it treats it as an HMAC secret.
+  const key = createSecretKey(Buffer.from(config.jwtSecret, 'utf8'));
   const issueToken = (user: User) =>
-    jwt.sign({ tv: user.tokenVersion } satisfies Omit<TokenClaims, 'sub'>, config.jwtSecret, { algorithm: 'HS256', expiresIn: config.jwtTtlS, subject: String(user.id) });
+    jwt.sign({ tv: user.tokenVersion } satisfies Omit<TokenClaims, 'sub'>, key, { algorithm: 'HS256', expiresIn: config.jwtTtlS, subject: String(user.id) });
 
   /**
    * The same 401 for an unknown address, a wrong password and a disabled account, after the
@@ -44,7 +48,7 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
     if (!match) throw unauthenticated('sign in first: this needs an Authorization: Bearer <token> header');
     let claims: TokenClaims;
     try {
-      claims = jwt.verify(match[1], config.jwtSecret, { algorithms: ['HS256'] }) as unknown as TokenClaims;
+      claims = jwt.verify(match[1], key, { algorithms: ['HS256'] }) as unknown as TokenClaims;
     } catch (err) {
       throw unauthenticated(err instanceof jwt.TokenExpiredError ? 'the session has expired: sign in again' : 'the token is not valid: sign in again');
     }

@@ -1,4 +1,4 @@
-import { Op, col, fn, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
+import { QueryTypes } from 'sequelize';
 import { Revision } from '../revisions/revision.model.ts';
 import { REVISION_LIST_EXCLUDE, toRevision } from '../revisions/revision.view.ts';
 import { notFound } from '../lib/app-error.ts';
@@ -17,29 +17,9 @@ export interface SiteQuery {
   sort: SiteSort;
 }
 
-const SORT_COLUMNS: Record<string, string> = { name: 'name', updated: 'updatedAt', errors: 'errorCount' };
+/** Sort keys to columns; the id breaks ties so pages never overlap. */
+const SORT_COLUMNS: Record<string, string> = { name: 's.name', updated: 's.updated_at', errors: 's.error_count' };
 
-function order(sort: SiteSort): Order {
-  const dir = sort.startsWith('-') ? 'DESC' : 'ASC';
-  const column = SORT_COLUMNS[sort.replace(/^-/, '')];
-  return [[column, dir], ['id', 'ASC']];
-}
-
-/** The state filters of DEVELOPERS.md: `never-approved` overlaps the others by design. */
-function stateWhere(state: SiteStatus | undefined): WhereOptions<Site> {
-  if (!state) return {};
-  if (state === 'never-approved') return { approvedRevisionId: null };
-  return { latestState: state };
-}
-
-function searchWhere(q: string | undefined): WhereOptions<Site> {
-  const needle = q?.trim().toLowerCase();
-  if (!needle) return {};
-  // instr, not LIKE: a `%` or `_` in the search is just a character.
-  return { [Op.or]: [sqlWhere(fn('instr', fn('lower', col('Site.name')), needle), Op.gt, 0), sqlWhere(fn('instr', col('Site.id'), needle), Op.gt, 0)] };
-}
-
-const lightRevision = (as: string) => ({ model: Revision, as, attributes: { exclude: REVISION_LIST_EXCLUDE }, include: [{ model: User, as: 'author' }] });
 const revisionWithSummary = (as: string) => ({ model: Revision, as, attributes: { exclude: REVISION_LIST_EXCLUDE.filter((c) => c !== 'summary') }, include: [{ model: User, as: 'author' }] });
 
 /** `SiteListItem` of the API contract. */
@@ -58,15 +38,38 @@ export const toSiteListItem = (s: Site) => ({
 
 export function createSitesService() {
   async function list(query: SiteQuery) {
-    const { rows, count } = await Site.findAndCountAll({
-      where: { [Op.and]: [stateWhere(query.state), searchWhere(query.q)] },
-      include: [lightRevision('latestRevision'), { model: User, as: 'updatedBy' }],
-      order: order(query.sort),
-      limit: query.limit,
-      offset: (query.page - 1) * query.limit,
-      distinct: true,
-    });
-    return { items: rows.map(toSiteListItem), total: count, page: query.page, limit: query.limit };
+    // One hand-written SELECT of the columns the answer needs, and a count of the sites table
+    // alone: Sequelize's findAndCountAll joined every site to its revisions just to count them
+    // (npm run bench, api). Values go in as bound parameters; the column comes from SORT_COLUMNS.
+    // State filters as DEVELOPERS.md says: `never-approved` overlaps the others by design; the
+    // search uses instr, not LIKE, so a `%` or `_` is just a character.
+    const where: string[] = [];
+    const params: unknown[] = [];
+    if (query.state === 'never-approved') where.push('s.approved_revision_id IS NULL');
+    else if (query.state) { where.push('s.latest_state = ?'); params.push(query.state); }
+    const needle = query.q?.trim().toLowerCase();
+    if (needle) { where.push('(instr(lower(s.name), ?) > 0 OR instr(s.id, ?) > 0)'); params.push(needle, needle); }
+    const w = where.length ? `WHERE ${where.join(' AND ')}` : '';
+    const column = SORT_COLUMNS[query.sort.replace(/^-/, '')];
+    const dir = query.sort.startsWith('-') ? 'DESC' : 'ASC';
+    const sql = `SELECT s.id, s.name, s.status, s.approved_revision_id AS approvedRevisionId, s.error_count AS errorCount, s.warning_count AS warningCount, s.created_at AS createdAt, s.updated_at AS updatedAt,
+        r.id AS rId, r.site_id AS rSiteId, r.number AS rNumber, r.state AS rState, r.sha256 AS rSha, r.message AS rMessage, r.parent_id AS rParent, r.error_count AS rErr, r.warning_count AS rWarn, r.info_count AS rInfo, r.created_at AS rCreated, r.decided_at AS rDecided,
+        a.id AS aId, a.name AS aName, a.email AS aEmail, u.id AS uId, u.name AS uName, u.email AS uEmail
+      FROM sites s LEFT JOIN revisions r ON r.id = s.latest_revision_id LEFT JOIN users a ON a.id = r.author_id LEFT JOIN users u ON u.id = s.updated_by_id
+      ${w} ORDER BY ${column} ${dir}, s.id ASC LIMIT ? OFFSET ?`;
+    const seq = Site.sequelize!;
+    const [countRows, rows] = await Promise.all([
+      seq.query(`SELECT count(*) AS n FROM sites s ${w}`, { replacements: params, type: QueryTypes.SELECT }) as Promise<{ n: number }[]>,
+      seq.query(sql, { replacements: [...params, query.limit, (query.page - 1) * query.limit], type: QueryTypes.SELECT }) as Promise<Record<string, any>[]>,
+    ]);
+    const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOString());
+    const items = rows.map((x) => ({
+      id: x.id, name: x.name, status: x.status, approvedRevisionId: x.approvedRevisionId,
+      latestRevision: x.rId == null ? null : { id: x.rId, siteId: x.rSiteId, number: x.rNumber, state: x.rState, sha256: x.rSha, message: x.rMessage, parentId: x.rParent, errorCount: x.rErr, warningCount: x.rWarn, infoCount: x.rInfo, author: x.aId == null ? null : { id: x.aId, name: x.aName, email: x.aEmail }, createdAt: iso(x.rCreated), decidedAt: iso(x.rDecided) },
+      errorCount: x.errorCount, warningCount: x.warningCount, createdAt: iso(x.createdAt), updatedAt: iso(x.updatedAt),
+      updatedBy: x.uId == null ? null : { name: x.uName, email: x.uEmail },
+    }));
+    return { items, total: countRows[0].n, page: query.page, limit: query.limit };
   }
 
   /** The site, its approved revision and its latest one, each with its summary figures. */
