@@ -23,6 +23,13 @@ export interface Database {
    * time, so that transactions waiting for the lock never tie up every worker thread of sqlite3.
    */
   write<T>(fn: (t: Transaction) => Promise<T>): Promise<T>;
+  /**
+   * One row of a read outside any transaction, straight from sqlite3 on the shared connection:
+   * for the lookups every request makes, which Sequelize's query path (a model build and a
+   * formatted stack trace per statement) would cost more than the SQL itself. Values come back
+   * as SQLite stores them (booleans as 0/1, dates as text).
+   */
+  get<T>(sql: string, params: unknown[]): Promise<T | undefined>;
   close(): Promise<void>;
 }
 
@@ -47,14 +54,28 @@ function defineModels(sequelize: Sequelize) {
 }
 
 /**
+ * Connections for statements outside transactions. Sequelize keeps just one, and SQLite runs
+ * one statement at a time on a connection, so every read of the process queued behind the one
+ * before it while the other core sat idle; in WAL mode readers on separate connections run side
+ * by side and each sees every committed write (npm run bench, api).
+ */
+const READ_CONNECTIONS = 2;
+
+type WeirConnection = sqlite3.Database & { weirReady?: boolean };
+
+/**
  * Sequelize opens one sqlite3 connection per transaction and sets only `foreign_keys` on it;
- * every connection also needs the busy timeout, which is per connection in SQLite.
+ * every connection also needs the busy timeout, which is per connection in SQLite. Statements
+ * outside a transaction take turns over READ_CONNECTIONS cached connections.
  */
 function configureEachConnection(sequelize: Sequelize) {
-  const manager = sequelize.connectionManager as unknown as { getConnection(options?: unknown): Promise<sqlite3.Database & { weirReady?: boolean }> };
+  const manager = sequelize.connectionManager as unknown as { getConnection(options?: { uuid?: string }): Promise<WeirConnection> };
   const getConnection = manager.getConnection.bind(manager);
-  manager.getConnection = async (options?: unknown) => {
-    const connection = await getConnection(options);
+  let turn = 0;
+  manager.getConnection = async (options?: { uuid?: string }) => {
+    const shared = !options?.uuid || options.uuid === 'default';
+    // A transaction's own connection is keyed by its id; the shared ones by their turn.
+    const connection = await getConnection(shared ? { ...options, uuid: `default-${turn++ % READ_CONNECTIONS}` } : options);
     if (!connection.weirReady) {
       connection.weirReady = true;
       connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
@@ -114,6 +135,12 @@ export async function openDatabase(file: string): Promise<Database> {
     sequelize,
     file,
     write: (fn) => queue(() => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn)),
+    async get<T>(sql: string, params: unknown[]) {
+      // The connection Sequelize keeps for statements outside transactions (set up as above).
+      const manager = sequelize.connectionManager as unknown as { getConnection(options: object): Promise<WeirConnection> };
+      const connection = await manager.getConnection({});
+      return new Promise<T | undefined>((resolve, reject) => connection.get(sql, params, (err, row) => (err ? reject(err) : resolve(row as T | undefined))));
+    },
     async close() {
       await sequelize.close();
       openFile = null;

@@ -110,12 +110,17 @@ export interface VerifyResult {
 const VERIFY_BATCH = 500;
 
 export function createAuditService({ now }: { now: () => Date }) {
+  // The chain's head as this transaction last wrote it: a second append in one transaction need
+  // not read it again, since the write lock keeps every other writer out until the commit. Keyed
+  // by the transaction object, so a rollback simply drops it with the transaction.
+  const heads = new WeakMap<Transaction, { seq: number; hash: string }>();
+
   /**
    * Appends one event to the chain. Call it inside the write transaction of the change it
    * records: the transaction holds SQLite's write lock, so the head read here stays the head.
    */
   async function append(t: Transaction, input: AuditInput): Promise<AuditEvent> {
-    const head = await AuditEvent.findOne({ order: [['seq', 'DESC']], attributes: ['seq', 'hash'], transaction: t });
+    const head = heads.get(t) ?? (await AuditEvent.findOne({ order: [['seq', 'DESC']], attributes: ['seq', 'hash'], transaction: t }));
     const fields: HashedFields = {
       seq: (head?.seq ?? 0) + 1,
       at: now().toISOString(),
@@ -127,7 +132,10 @@ export function createAuditService({ now }: { now: () => Date }) {
       details: input.details ?? {},
     };
     const prevHash = head?.hash ?? GENESIS_HASH;
-    return AuditEvent.create({ ...fields, details: JSON.stringify(fields.details), prevHash, hash: eventHash(prevHash, fields) }, { transaction: t });
+    const hash = eventHash(prevHash, fields);
+    const event = await AuditEvent.create({ ...fields, details: JSON.stringify(fields.details), prevHash, hash }, { transaction: t });
+    heads.set(t, { seq: fields.seq, hash });
+    return event;
   }
 
   function where(f: AuditFilters): WhereOptions<AuditEvent> {

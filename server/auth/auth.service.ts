@@ -4,7 +4,9 @@ import type { AuditService } from '../audit/audit.service.ts';
 import type { Config } from '../config.ts';
 import type { Database } from '../db.ts';
 import { AppError } from '../lib/app-error.ts';
+import type { InferAttributes } from 'sequelize';
 import { User } from '../users/user.model.ts';
+import type { Role } from './permissions.ts';
 import { normaliseEmail } from '../users/users.service.ts';
 import { checkPassword, dummyHash } from './passwords.ts';
 
@@ -13,6 +15,21 @@ interface TokenClaims {
   /** The account's token version when the token was issued. */
   tv: number;
 }
+
+interface UserRow {
+  id: number;
+  email: string;
+  name: string;
+  passwordHash: string;
+  role: Role;
+  disabled: number | boolean;
+  tokenVersion: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+/** As Sequelize's SQLite DATE parser reads a stored date: without an offset it is UTC. */
+const storedDate = (text: string) => new Date(text.includes('+') ? text : `${text} +00:00`);
 
 const unauthenticated = (message: string) => new AppError(401, 'unauthenticated', message);
 
@@ -42,6 +59,20 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
     return { token: issueToken(user), user };
   }
 
+  /** One account by id, read afresh with one plain SELECT (every request does this). */
+  async function findUser(id: number): Promise<User | null> {
+    const row = await db.get<UserRow>(
+      'SELECT id, email, name, password_hash AS passwordHash, role, disabled, token_version AS tokenVersion, created_at AS createdAt, updated_at AS updatedAt FROM users WHERE id = ?',
+      [id],
+    );
+    if (!row) return null;
+    // Typed as Sequelize would: booleans from 0/1, dates from the stored text.
+    return User.build(
+      { ...row, disabled: Boolean(row.disabled), createdAt: storedDate(row.createdAt), updatedAt: storedDate(row.updatedAt) } as InferAttributes<User>,
+      { isNewRecord: false, raw: true },
+    );
+  }
+
   /** The account behind a bearer token, read afresh so a disable or a role change counts at once. */
   async function authenticate(header: string | undefined): Promise<User> {
     const match = /^Bearer\s+(\S+)\s*$/i.exec(header ?? '');
@@ -53,7 +84,7 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
       throw unauthenticated(err instanceof jwt.TokenExpiredError ? 'the session has expired: sign in again' : 'the token is not valid: sign in again');
     }
     const id = Number(claims.sub);
-    const user = Number.isSafeInteger(id) ? await User.findByPk(id) : null;
+    const user = Number.isSafeInteger(id) ? await findUser(id) : null;
     if (!user || user.disabled || user.tokenVersion !== claims.tv) throw unauthenticated('the session is no longer valid: sign in again');
     return user;
   }

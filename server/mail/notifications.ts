@@ -1,4 +1,5 @@
-import type { RevisionEvents } from '../revisions/revisions.service.ts';
+import { QueryTypes } from 'sequelize';
+import type { PushedRevision, RevisionEvents } from '../revisions/revisions.service.ts';
 import { Review } from '../revisions/review.model.ts';
 import { Revision } from '../revisions/revision.model.ts';
 import { Site } from '../sites/site.model.ts';
@@ -21,29 +22,37 @@ export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; pub
   const run = (what: string, task: () => Promise<void>) => mailer.later(`the ${what} notice`, task);
 
   return {
-    pushed(revisionId) {
+    pushed(revisionId, pushed) {
       run('awaiting-review', async () => {
-        const found = await load(revisionId);
-        if (!found) return;
-        const { revision, site } = found;
-        const leads = await User.findAll({ where: { role: 'lead', disabled: false }, attributes: ['id', 'email', 'name'] });
-        const author = revision.author;
-        const findings = revision.errorCount
-          ? `It has ${revision.errorCount} error finding(s), which block approval, and ${revision.warningCount} warning(s).`
-          : `It has no error findings and ${revision.warningCount} warning(s).`;
+        // The push hands over what it stored; read it back only when it did not.
+        let notice: PushedRevision;
+        if (pushed) notice = pushed;
+        else {
+          const found = await load(revisionId);
+          if (!found) return;
+          const { revision, site } = found;
+          const a = revision.author;
+          notice = { siteId: site.id, siteName: site.name, number: revision.number, message: revision.message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: a ? { id: a.id, name: a.name, email: a.email } : null };
+        }
+        // Read afresh on every push: a lead disabled in another process must hear no more.
+        const leads = (await User.sequelize!.query('SELECT id, email, name FROM users WHERE role = ? AND disabled = 0', { replacements: ['lead'], type: QueryTypes.SELECT })) as { id: number; email: string; name: string }[];
+        const author = notice.author;
+        const findings = notice.errorCount
+          ? `It has ${notice.errorCount} error finding(s), which block approval, and ${notice.warningCount} warning(s).`
+          : `It has no error findings and ${notice.warningCount} warning(s).`;
         for (const lead of leads) {
-          if (lead.id === revision.authorId) continue;
+          if (author && lead.id === author.id) continue;
           mailer.send({
             to: lead.email,
-            subject: `[Weir] ${site.name}: revision ${revision.number} awaits review`,
+            subject: `[Weir] ${notice.siteName}: revision ${notice.number} awaits review`,
             text: [
               `Hello ${lead.name},`,
               '',
-              `${author?.name ?? 'Someone'} (${author?.email ?? 'unknown'}) pushed revision ${revision.number} of ${site.name} (${site.id}).`,
-              revision.message ? `Message: ${revision.message}` : 'No message was given.',
+              `${author?.name ?? 'Someone'} (${author?.email ?? 'unknown'}) pushed revision ${notice.number} of ${notice.siteName} (${notice.siteId}).`,
+              notice.message ? `Message: ${notice.message}` : 'No message was given.',
               findings,
               '',
-              `Review it: ${link(revision.id)}`,
+              `Review it: ${link(revisionId)}`,
             ].join('\n'),
           });
         }

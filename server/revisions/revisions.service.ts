@@ -1,4 +1,4 @@
-import { UniqueConstraintError } from 'sequelize';
+import { QueryTypes, UniqueConstraintError } from 'sequelize';
 import { checkSite, diffSites, type Site as SiteDocument } from '../../shared/index.ts';
 import type { AuditService } from '../audit/audit.service.ts';
 import { can } from '../auth/permissions.ts';
@@ -11,9 +11,20 @@ import { Review, type Decision } from './review.model.ts';
 import { Revision } from './revision.model.ts';
 import { REVISION_LIST_EXCLUDE, toReview, toRevision, type ApprovalBlocker, type RevisionDetailView, type RevisionView } from './revision.view.ts';
 
+/** What a push just stored, for its notices (so they need not read it back). */
+export interface PushedRevision {
+  siteId: string;
+  siteName: string;
+  number: number;
+  message: string | null;
+  errorCount: number;
+  warningCount: number;
+  author: { id: number; name: string; email: string } | null;
+}
+
 export interface RevisionEvents {
   /** After the commit of a new revision. */
-  pushed(revisionId: number): void;
+  pushed(revisionId: number, pushed?: PushedRevision): void;
   /** After the commit of a review. */
   decided(revisionId: number): void;
 }
@@ -39,9 +50,10 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
       db.write(async (t) => {
         const at = now();
         let site = await Site.findByPk(siteId, { transaction: t });
+        const isNew = !site;
         if (site) {
           const same = await Revision.findOne({ where: { siteId, sha256 }, attributes: ['id'], transaction: t });
-          if (same) return { id: same.id, created: false };
+          if (same) return { id: same.id, created: false as const };
         } else {
           site = await Site.create(
             { id: siteId, name: doc.site.name, status: 'pending', latestState: 'pending', approvedRevisionId: null, latestRevisionId: null, errorCount: 0, warningCount: 0, updatedById: author.id, createdAt: at, updatedAt: at },
@@ -50,8 +62,20 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
           await audit.append(t, { action: 'site.created', actor: actorOf(author), siteId, details: { name: doc.site.name } });
         }
 
-        const lastNumber = ((await Revision.max('number', { where: { siteId }, transaction: t })) as number | null) ?? 0;
-        const older = await Revision.findAll({ where: { siteId, state: 'pending' }, attributes: ['id', 'number', 'state'], transaction: t });
+        // The last number and the pending revisions in one statement; a new site has neither.
+        let lastNumber = 0;
+        let older: { id: number; number: number }[] = [];
+        if (!isNew) {
+          const rows = (await db.sequelize.query(
+            `SELECT m.n AS lastNumber, r.id AS id, r.number AS number
+               FROM (SELECT max(number) AS n FROM revisions WHERE site_id = ?) m
+               LEFT JOIN revisions r ON r.site_id = ? AND r.state = 'pending'
+              ORDER BY r.id`,
+            { replacements: [siteId, siteId], type: QueryTypes.SELECT, transaction: t },
+          )) as { lastNumber: number | null; id: number | null; number: number | null }[];
+          lastNumber = rows[0]?.lastNumber ?? 0;
+          older = rows.filter((x) => x.id !== null).map((x) => ({ id: x.id!, number: x.number! }));
+        }
         const revision = await Revision.create(
           {
             siteId,
@@ -99,10 +123,12 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
           },
           { transaction: t },
         );
-        return { id: revision.id, created: true };
+        // The approved revision the new one is compared with, read under the same lock.
+        const base = site.approvedRevisionId === null ? null : await Revision.findByPk(site.approvedRevisionId, { attributes: ['id', 'number', 'document'], transaction: t });
+        return { id: revision.id, created: true as const, revision, site, base };
       });
 
-    let result: { id: number; created: boolean };
+    let result: Awaited<ReturnType<typeof stored>>;
     try {
       result = await stored();
     } catch (err) {
@@ -112,8 +138,26 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
       if (!same) throw err;
       result = { id: same.id, created: false };
     }
-    if (result.created) events.pushed(result.id);
-    return { revision: await detail(result.id, author), created: result.created };
+    if (!result.created) return { revision: await detail(result.id, author), created: false };
+    const { revision, site, base } = result;
+    events.pushed(revision.id, { siteId, siteName: site.name, number: revision.number, message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: { id: author.id, name: author.name, email: author.email } });
+    // The answer `detail` would read back, built from what was just stored: a new revision has no
+    // reviews yet, and is compared with the site's approved revision (its parent).
+    revision.author = author;
+    return {
+      revision: {
+        ...toRevision(revision),
+        yaml: text,
+        findings: check.findings,
+        summary: check.summary ?? null,
+        // As stored: the JSON round trip drops what the column would not keep.
+        diff: diffSites(base?.document ?? null, JSON.parse(JSON.stringify(doc))),
+        diffBase: base ? { id: base.id, number: base.number } : null,
+        reviews: [],
+        approvalBlockers: blockers(revision, site, author),
+      },
+      created: true,
+    };
   }
 
   function blockers(r: Revision, site: Site, caller: User): ApprovalBlocker[] {
