@@ -1,5 +1,5 @@
 import { phaseAngleDeg, powerFactorMagnitude } from '../electrical/power.ts';
-import type { LiveConductor } from '../site/types.ts';
+import type { Expect, LiveConductor, Reading, Site } from '../site/types.ts';
 import { defineRule, fmt, type RawFinding } from './rule.ts';
 
 const PHASES: LiveConductor[] = ['L1', 'L2', 'L3'];
@@ -11,8 +11,17 @@ export const CROSS_PHASE_WINDOW_DEG = 15;
 /** cos 60° = 0.5: with only |PF| known, 0.35–0.65 suggests a 120°/60° error (common practice). */
 export const CROSS_PHASE_PF_BAND = [0.35, 0.65] as const;
 
-function eachReading(site: Parameters<typeof readingVoltageMissing.check>[0]['site']) {
-  const out: { i: number; phase: LiveConductor; reading: NonNullable<import('../site/types.ts').Snapshot['L1']>; expect: string; label: string }[] = [];
+interface PhaseReading {
+  i: number;
+  phase: LiveConductor;
+  reading: Reading;
+  expect: Expect;
+  label: string;
+}
+
+/** Every conductor's reading in every snapshot, with where it sits in the file. */
+function eachReading(site: Site): PhaseReading[] {
+  const out: PhaseReading[] = [];
   (site.commissioning?.readings ?? []).forEach((snapshot, i) => {
     for (const phase of PHASES) {
       const reading = snapshot[phase];
