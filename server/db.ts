@@ -1,6 +1,6 @@
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { Sequelize, Transaction } from 'sequelize';
+import { Sequelize, Transaction, UniqueConstraintError } from 'sequelize';
 import sqlite3 from 'sqlite3';
 import { SequelizeStorage, Umzug } from 'umzug';
 import { initAuditEvent } from './audit/audit-event.model.ts';
@@ -30,8 +30,50 @@ export interface Database {
    * as SQLite stores them (booleans as 0/1, dates as text).
    */
   get<T>(sql: string, params: unknown[]): Promise<T | undefined>;
+  /**
+   * Hand-written statements straight on sqlite3, inside the transaction `t` (on its connection)
+   * or, without one, on a shared read connection: for the hot paths (a push, the sites list),
+   * where Sequelize's query path costs more than the SQL itself. Dates go in and come back as
+   * stored text (lib/stored-date.ts), JSON as text, booleans as 0/1.
+   */
+  sql(t?: Transaction): Sql;
   close(): Promise<void>;
 }
+
+type Param = string | number | null;
+
+export interface Sql {
+  get<T>(sql: string, params?: readonly Param[]): Promise<T | undefined>;
+  all<T>(sql: string, params?: readonly Param[]): Promise<T[]>;
+  /** An INSERT, UPDATE or DELETE: the new row's id and the number of rows changed. */
+  run(sql: string, params?: readonly Param[]): Promise<{ lastId: number; changes: number }>;
+}
+
+function sqlOn(connection: () => Promise<sqlite3.Database>): Sql {
+  return {
+    async get<T>(sql: string, params: readonly Param[] = []) {
+      const c = await connection();
+      return new Promise<T | undefined>((resolve, reject) => c.get(sql, params, (err, row) => (err ? reject(err) : resolve(row as T | undefined))));
+    },
+    async all<T>(sql: string, params: readonly Param[] = []) {
+      const c = await connection();
+      return new Promise<T[]>((resolve, reject) => c.all(sql, params, (err, rows) => (err ? reject(err) : resolve(rows as T[]))));
+    },
+    async run(sql: string, params: readonly Param[] = []) {
+      const c = await connection();
+      return new Promise<{ lastId: number; changes: number }>((resolve, reject) =>
+        c.run(sql, params, function (this: sqlite3.RunResult, err: Error | null) {
+          if (err) reject(err);
+          else resolve({ lastId: this.lastID, changes: this.changes });
+        }),
+      );
+    },
+  };
+}
+
+/** A UNIQUE constraint failed, as Sequelize reports it or as sqlite3 does for a hand-written statement. */
+export const isUniqueViolation = (err: unknown): boolean =>
+  err instanceof UniqueConstraintError || (err instanceof Error && (err as { code?: string }).code === 'SQLITE_CONSTRAINT' && /UNIQUE constraint failed/.test(err.message));
 
 function defineModels(sequelize: Sequelize) {
   initUser(sequelize);
@@ -61,26 +103,50 @@ function defineModels(sequelize: Sequelize) {
  */
 const READ_CONNECTIONS = 2;
 
-type WeirConnection = sqlite3.Database & { weirReady?: boolean };
+type WeirConnection = sqlite3.Database & { weirReady?: boolean; weirWriter?: boolean };
+
+/** The key of the one connection every write transaction of this process runs on. */
+const WRITER = 'writer';
 
 /**
- * Sequelize opens one sqlite3 connection per transaction and sets only `foreign_keys` on it;
- * every connection also needs the busy timeout, which is per connection in SQLite. Statements
- * outside a transaction take turns over READ_CONNECTIONS cached connections.
+ * Sequelize opens a new sqlite3 connection for every transaction and closes it at the end: each
+ * write paid for opening the file, reading the schema afresh and the PRAGMAs (npm run bench,
+ * api: a third of a push). Writes of this process are one at a time anyway (`write` queues
+ * them), so every transaction runs on one long-lived writer connection instead, and statements
+ * outside a transaction take turns over READ_CONNECTIONS cached connections. Every connection
+ * gets the busy timeout, which SQLite keeps per connection.
  */
 function configureEachConnection(sequelize: Sequelize) {
-  const manager = sequelize.connectionManager as unknown as { getConnection(options?: { uuid?: string }): Promise<WeirConnection> };
+  type Manager = {
+    connections: Record<string, WeirConnection>;
+    getConnection(options?: { uuid?: string }): Promise<WeirConnection>;
+    releaseConnection(connection: WeirConnection, force?: boolean): void;
+    destroyConnection(connection: WeirConnection): Promise<void>;
+  };
+  const manager = sequelize.connectionManager as unknown as Manager;
   const getConnection = manager.getConnection.bind(manager);
+  const releaseConnection = manager.releaseConnection.bind(manager);
   let turn = 0;
   manager.getConnection = async (options?: { uuid?: string }) => {
     const shared = !options?.uuid || options.uuid === 'default';
-    // A transaction's own connection is keyed by its id; the shared ones by their turn.
-    const connection = await getConnection(shared ? { ...options, uuid: `default-${turn++ % READ_CONNECTIONS}` } : options);
+    const uuid = shared ? `default-${turn++ % READ_CONNECTIONS}` : WRITER;
+    const connection = await getConnection({ ...options, uuid });
     if (!connection.weirReady) {
       connection.weirReady = true;
+      connection.weirWriter = !shared;
       connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
     }
     return connection;
+  };
+  // The writer outlives its transactions: a finished one hands it back open.
+  manager.releaseConnection = (connection, force) => {
+    if (!connection.weirWriter) releaseConnection(connection, force);
+  };
+  // After a failed COMMIT or ROLLBACK the connection's state is unknown: close it, and the next
+  // transaction opens a new writer.
+  manager.destroyConnection = async (connection) => {
+    if (manager.connections[WRITER] === connection) delete manager.connections[WRITER];
+    await new Promise<void>((resolve) => connection.close(() => resolve()));
   };
 }
 
@@ -115,7 +181,7 @@ export async function openDatabase(file: string): Promise<Database> {
     dialectModule: sqlite3,
     storage: file,
     logging: false,
-    // One cached connection outside transactions; transactions get their own.
+    // Sequelize's pool is not what serves SQLite: configureEachConnection says which connection runs what.
     pool: { max: 1, min: 0, idle: 10_000 },
   });
   configureEachConnection(sequelize);
@@ -131,15 +197,21 @@ export async function openDatabase(file: string): Promise<Database> {
   }
 
   const queue = createQueue();
+  const manager = sequelize.connectionManager as unknown as { getConnection(options: object): Promise<WeirConnection> };
+  // The connection Sequelize keeps for statements outside transactions (set up as above).
+  const shared = sqlOn(() => manager.getConnection({}));
   return {
     sequelize,
     file,
     write: (fn) => queue(() => sequelize.transaction({ type: Transaction.TYPES.IMMEDIATE }, fn)),
-    async get<T>(sql: string, params: unknown[]) {
-      // The connection Sequelize keeps for statements outside transactions (set up as above).
-      const manager = sequelize.connectionManager as unknown as { getConnection(options: object): Promise<WeirConnection> };
-      const connection = await manager.getConnection({});
-      return new Promise<T | undefined>((resolve, reject) => connection.get(sql, params, (err, row) => (err ? reject(err) : resolve(row as T | undefined))));
+    get: <T>(sql: string, params: unknown[]) => shared.get<T>(sql, params as Param[]),
+    sql(t?: Transaction) {
+      if (!t) return shared;
+      return sqlOn(async () => {
+        const c = (t as unknown as { connection?: sqlite3.Database }).connection;
+        if (!c) throw new Error('the transaction has no connection: it has finished');
+        return c;
+      });
     },
     async close() {
       await sequelize.close();

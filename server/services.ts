@@ -25,7 +25,7 @@ export interface AppDeps {
 export function createServices(deps: AppDeps) {
   const { db, config, mailer, storage } = deps;
   const now = deps.now ?? (() => new Date());
-  const audit = createAuditService({ now });
+  const audit = createAuditService({ db, now });
   const events = createNotifications({ mailer, publicUrl: config.publicUrl });
   return {
     now,

@@ -1,6 +1,7 @@
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import { canonicalJson } from '../lib/canonical-json.ts';
 import { sha256Hex } from '../lib/hash.ts';
+import type { Database } from '../db.ts';
 import { AuditEvent } from './audit-event.model.ts';
 
 /** The previous hash of the first event. */
@@ -109,7 +110,7 @@ export interface VerifyResult {
 
 const VERIFY_BATCH = 500;
 
-export function createAuditService({ now }: { now: () => Date }) {
+export function createAuditService({ db, now }: { db: Database; now: () => Date }) {
   // The chain's head as this transaction last wrote it: a second append in one transaction need
   // not read it again, since the write lock keeps every other writer out until the commit. Keyed
   // by the transaction object, so a rollback simply drops it with the transaction.
@@ -119,8 +120,9 @@ export function createAuditService({ now }: { now: () => Date }) {
    * Appends one event to the chain. Call it inside the write transaction of the change it
    * records: the transaction holds SQLite's write lock, so the head read here stays the head.
    */
-  async function append(t: Transaction, input: AuditInput): Promise<AuditEvent> {
-    const head = heads.get(t) ?? (await AuditEvent.findOne({ order: [['seq', 'DESC']], attributes: ['seq', 'hash'], transaction: t }));
+  async function append(t: Transaction, input: AuditInput): Promise<void> {
+    const sql = db.sql(t);
+    const head = heads.get(t) ?? (await sql.get<{ seq: number; hash: string }>('SELECT seq, hash FROM audit_events ORDER BY seq DESC LIMIT 1'));
     const fields: HashedFields = {
       seq: (head?.seq ?? 0) + 1,
       at: now().toISOString(),
@@ -133,9 +135,11 @@ export function createAuditService({ now }: { now: () => Date }) {
     };
     const prevHash = head?.hash ?? GENESIS_HASH;
     const hash = eventHash(prevHash, fields);
-    const event = await AuditEvent.create({ ...fields, details: JSON.stringify(fields.details), prevHash, hash }, { transaction: t });
+    await sql.run(
+      'INSERT INTO audit_events (seq, at, actor_id, actor_email, action, site_id, revision_id, details, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
+      [fields.seq, fields.at, fields.actorId, fields.actorEmail, fields.action, fields.siteId, fields.revisionId, JSON.stringify(fields.details), prevHash, hash],
+    );
     heads.set(t, { seq: fields.seq, hash });
-    return event;
   }
 
   function where(f: AuditFilters): WhereOptions<AuditEvent> {

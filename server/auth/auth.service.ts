@@ -4,6 +4,7 @@ import type { AuditService } from '../audit/audit.service.ts';
 import type { Config } from '../config.ts';
 import type { Database } from '../db.ts';
 import { AppError } from '../lib/app-error.ts';
+import { fromStoredDate } from '../lib/stored-date.ts';
 import type { InferAttributes } from 'sequelize';
 import { User } from '../users/user.model.ts';
 import type { Role } from './permissions.ts';
@@ -27,9 +28,6 @@ interface UserRow {
   createdAt: string;
   updatedAt: string;
 }
-
-/** As Sequelize's SQLite DATE parser reads a stored date: without an offset it is UTC. */
-const storedDate = (text: string) => new Date(text.includes('+') ? text : `${text} +00:00`);
 
 const unauthenticated = (message: string) => new AppError(401, 'unauthenticated', message);
 
@@ -68,7 +66,7 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
     if (!row) return null;
     // Typed as Sequelize would: booleans from 0/1, dates from the stored text.
     return User.build(
-      { ...row, disabled: Boolean(row.disabled), createdAt: storedDate(row.createdAt), updatedAt: storedDate(row.updatedAt) } as InferAttributes<User>,
+      { ...row, disabled: Boolean(row.disabled), createdAt: fromStoredDate(row.createdAt), updatedAt: fromStoredDate(row.updatedAt) } as InferAttributes<User>,
       { isNewRecord: false, raw: true },
     );
   }
