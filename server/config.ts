@@ -17,6 +17,8 @@ export interface Config {
   jwtTtlS: number;
   smtpUrl: string | null;
   mailFrom: string;
+  /** How long pushes are gathered into one awaiting-review message per lead. */
+  mailDigestMs: number;
   /** Base of the links in e-mails. */
   publicUrl: string;
   demoPassword: string;
@@ -95,6 +97,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     jwtTtlS: integer(env, 'WEIR_TOKEN_TTL_S', 8 * 3600, 60, 30 * 24 * 3600),
     smtpUrl: env.SMTP_URL || null,
     mailFrom: env.WEIR_MAIL_FROM || 'Weir <weir@example.test>',
+    mailDigestMs: integer(env, 'WEIR_MAIL_DIGEST_S', 2, 0, 3600) * 1000,
     publicUrl: (env.WEIR_PUBLIC_URL || `http://${displayHost(host)}:${port}`).replace(/\/+$/, ''),
     demoPassword: env.WEIR_DEMO_PASSWORD || DEFAULT_DEMO_PASSWORD,
     demoPasswordFromEnv: Boolean(env.WEIR_DEMO_PASSWORD),

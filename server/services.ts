@@ -26,7 +26,7 @@ export function createServices(deps: AppDeps) {
   const { db, config, mailer, storage } = deps;
   const now = deps.now ?? (() => new Date());
   const audit = createAuditService({ db, now });
-  const events = createNotifications({ mailer, publicUrl: config.publicUrl });
+  const events = createNotifications({ mailer, publicUrl: config.publicUrl, digestMs: config.mailDigestMs });
   return {
     now,
     audit,

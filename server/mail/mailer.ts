@@ -23,7 +23,12 @@ export interface Mailer {
   send(message: MailMessage): void;
   /** Runs mail work in the background, logged on failure and awaited by `idle`. */
   later(what: string, task: () => Promise<void>): void;
-  /** Resolves when every queued message has been delivered or has failed. */
+  /**
+   * Runs `task` in the background after `delayMs`, or at once when `idle` is called: for notices
+   * that gather what happens in a short while into one message.
+   */
+  defer(what: string, delayMs: number, task: () => Promise<void>): void;
+  /** Runs deferred work now, then resolves when every queued message has been delivered or has failed. */
   idle(): Promise<void>;
   /** Messages kept in the outbox folder, newest first; empty when mail goes out over SMTP. */
   outbox(limit?: number): Promise<OutboxItem[]>;
@@ -42,8 +47,21 @@ export interface MailerOptions {
  * and written to the outbox folder as an .eml file (with a .json beside it for the listing).
  */
 export function createMailer({ smtpUrl, outboxDir, from, logger }: MailerOptions): Mailer {
+  const hurry = new Set<() => void>();
   const transport = smtpUrl ? nodemailer.createTransport(smtpUrl) : nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' });
   const pending = new Set<Promise<void>>();
+
+  /** The folder is made when the first write finds it missing (not checked on every message). */
+  async function writeOutbox(name: string, data: string | Buffer) {
+    const file = path.join(outboxDir, name);
+    try {
+      await writeFile(file, data);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== 'ENOENT') throw err;
+      await mkdir(outboxDir, { recursive: true });
+      await writeFile(file, data);
+    }
+  }
 
   async function deliver(message: MailMessage) {
     const date = new Date();
@@ -51,10 +69,9 @@ export function createMailer({ smtpUrl, outboxDir, from, logger }: MailerOptions
     if (smtpUrl) return;
     const raw = (info as unknown as { message: Buffer }).message;
     const id = `${date.toISOString().replace(/[:.]/g, '-')}-${randomBytes(4).toString('hex')}`;
-    await mkdir(outboxDir, { recursive: true });
-    await writeFile(path.join(outboxDir, `${id}.eml`), raw);
+    await writeOutbox(`${id}.eml`, raw);
     const item: OutboxItem = { id, to: message.to, subject: message.subject, date: date.toISOString(), text: message.text };
-    await writeFile(path.join(outboxDir, `${id}.json`), JSON.stringify(item, null, 2));
+    await writeOutbox(`${id}.json`, JSON.stringify(item, null, 2));
   }
 
   const later = (what: string, task: () => Promise<void>) => {
@@ -64,13 +81,32 @@ export function createMailer({ smtpUrl, outboxDir, from, logger }: MailerOptions
     pending.add(job);
   };
 
+  const defer = (what: string, delayMs: number, task: () => Promise<void>) => {
+    later(what, async () => {
+      await new Promise<void>((resolve) => {
+        const now = () => {
+          clearTimeout(timer);
+          hurry.delete(now);
+          resolve();
+        };
+        const timer = setTimeout(now, delayMs);
+        hurry.add(now);
+      });
+      await task();
+    });
+  };
+
   return {
     later,
+    defer,
     send(message) {
       later(`delivery to ${message.to} of "${message.subject}"`, () => deliver(message));
     },
     async idle() {
-      while (pending.size) await Promise.allSettled([...pending]);
+      while (pending.size) {
+        for (const now of [...hurry]) now();
+        await Promise.allSettled([...pending]);
+      }
     },
     async outbox(limit = 100) {
       if (smtpUrl) return [];

@@ -6,12 +6,29 @@ import { Site } from '../sites/site.model.ts';
 import { User } from '../users/user.model.ts';
 import type { Mailer } from './mailer.ts';
 
+/** Revisions named one by one in a digest; past this, the message counts the rest. */
+const DIGEST_LIST_MAX = 50;
+
+interface Lead {
+  id: number;
+  email: string;
+  name: string;
+}
+
+const findingsLine = (n: PushedRevision) =>
+  n.errorCount
+    ? `It has ${n.errorCount} error finding(s), which block approval, and ${n.warningCount} warning(s).`
+    : `It has no error findings and ${n.warningCount} warning(s).`;
+
 /**
  * Who hears about what: every active lead but the author when a revision awaits review, the
  * author when it is approved or returned. Runs after the change has committed; a failure here
  * is logged and never undoes the change.
+ *
+ * Pushes are gathered for `digestMs`: a lead hears of one push in one message as before, and of
+ * `weir push` of a folder of 200 sites in one message that lists them, not in 200 messages.
  */
-export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; publicUrl: string }): RevisionEvents {
+export function createNotifications({ mailer, publicUrl, digestMs }: { mailer: Mailer; publicUrl: string; digestMs: number }): RevisionEvents {
   const load = async (revisionId: number) => {
     const revision = await Revision.findByPk(revisionId, { attributes: ['id', 'siteId', 'number', 'state', 'message', 'errorCount', 'warningCount', 'authorId'], include: [{ model: User, as: 'author' }] });
     const site = revision && (await Site.findByPk(revision.siteId, { attributes: ['id', 'name'] }));
@@ -21,40 +38,75 @@ export function createNotifications({ mailer, publicUrl }: { mailer: Mailer; pub
   const link = (revisionId: number) => `${publicUrl}/revisions/${revisionId}`;
   const run = (what: string, task: () => Promise<void>) => mailer.later(`the ${what} notice`, task);
 
+  /** The notices of one push, or of several pushes gathered, to one lead. */
+  function awaitingReview(lead: Lead, notices: { revisionId: number; notice: PushedRevision }[]) {
+    if (notices.length === 1) {
+      const [{ revisionId, notice }] = notices;
+      const author = notice.author;
+      return {
+        to: lead.email,
+        subject: `[Weir] ${notice.siteName}: revision ${notice.number} awaits review`,
+        text: [
+          `Hello ${lead.name},`,
+          '',
+          `${author?.name ?? 'Someone'} (${author?.email ?? 'unknown'}) pushed revision ${notice.number} of ${notice.siteName} (${notice.siteId}).`,
+          notice.message ? `Message: ${notice.message}` : 'No message was given.',
+          findingsLine(notice),
+          '',
+          `Review it: ${link(revisionId)}`,
+        ].join('\n'),
+      };
+    }
+    const blocked = notices.filter((n) => n.notice.errorCount > 0).length;
+    const listed = notices.slice(0, DIGEST_LIST_MAX).map(({ revisionId, notice }) => {
+      const who = notice.author ? ` by ${notice.author.name}` : '';
+      const counts = notice.errorCount ? `${notice.errorCount} error(s), ${notice.warningCount} warning(s)` : `no errors, ${notice.warningCount} warning(s)`;
+      return `- ${notice.siteName} (${notice.siteId}), revision ${notice.number}${who}: ${counts}\n  ${link(revisionId)}`;
+    });
+    const rest = notices.length - listed.length;
+    return {
+      to: lead.email,
+      subject: `[Weir] ${notices.length} revisions await review`,
+      text: [
+        `Hello ${lead.name},`,
+        '',
+        `${notices.length} revisions were pushed and await review; ${blocked ? `${blocked} of them have error findings, which block approval` : 'none of them has error findings'}.`,
+        '',
+        ...listed,
+        ...(rest > 0 ? ['', `… and ${rest} more: ${publicUrl}/sites?state=pending`] : []),
+      ].join('\n'),
+    };
+  }
+
+  let gathered: { revisionId: number; notice: PushedRevision | null }[] | null = null;
+
   return {
     pushed(revisionId, pushed) {
-      run('awaiting-review', async () => {
+      const first = gathered === null;
+      gathered ??= [];
+      const batch = gathered;
+      batch.push({ revisionId, notice: pushed ?? null });
+      if (!first) return;
+      mailer.defer('the awaiting-review notices', digestMs, async () => {
+        gathered = null;
         // The push hands over what it stored; read it back only when it did not.
-        let notice: PushedRevision;
-        if (pushed) notice = pushed;
-        else {
-          const found = await load(revisionId);
-          if (!found) return;
+        const notices: { revisionId: number; notice: PushedRevision }[] = [];
+        for (const item of batch) {
+          if (item.notice) {
+            notices.push({ revisionId: item.revisionId, notice: item.notice });
+            continue;
+          }
+          const found = await load(item.revisionId);
+          if (!found) continue;
           const { revision, site } = found;
           const a = revision.author;
-          notice = { siteId: site.id, siteName: site.name, number: revision.number, message: revision.message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: a ? { id: a.id, name: a.name, email: a.email } : null };
+          notices.push({ revisionId: item.revisionId, notice: { siteId: site.id, siteName: site.name, number: revision.number, message: revision.message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: a ? { id: a.id, name: a.name, email: a.email } : null } });
         }
-        // Read afresh on every push: a lead disabled in another process must hear no more.
-        const leads = (await User.sequelize!.query('SELECT id, email, name FROM users WHERE role = ? AND disabled = 0', { replacements: ['lead'], type: QueryTypes.SELECT })) as { id: number; email: string; name: string }[];
-        const author = notice.author;
-        const findings = notice.errorCount
-          ? `It has ${notice.errorCount} error finding(s), which block approval, and ${notice.warningCount} warning(s).`
-          : `It has no error findings and ${notice.warningCount} warning(s).`;
+        // Read afresh for every digest: a lead disabled in another process must hear no more.
+        const leads = (await User.sequelize!.query('SELECT id, email, name FROM users WHERE role = ? AND disabled = 0', { replacements: ['lead'], type: QueryTypes.SELECT })) as Lead[];
         for (const lead of leads) {
-          if (author && lead.id === author.id) continue;
-          mailer.send({
-            to: lead.email,
-            subject: `[Weir] ${notice.siteName}: revision ${notice.number} awaits review`,
-            text: [
-              `Hello ${lead.name},`,
-              '',
-              `${author?.name ?? 'Someone'} (${author?.email ?? 'unknown'}) pushed revision ${notice.number} of ${notice.siteName} (${notice.siteId}).`,
-              notice.message ? `Message: ${notice.message}` : 'No message was given.',
-              findings,
-              '',
-              `Review it: ${link(revisionId)}`,
-            ].join('\n'),
-          });
+          const own = notices.filter((n) => n.notice.author?.id !== lead.id);
+          if (own.length) mailer.send(awaitingReview(lead, own));
         }
       });
     },

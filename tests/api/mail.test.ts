@@ -97,6 +97,22 @@ describe('e-mail over SMTP', () => {
     expect(readMessage(notice.raw).text).toContain('It has 3 error finding(s), which block approval');
   });
 
+  it('When a lead pushes a folder of sites, then each other lead gets one message listing them all', async () => {
+    catcher.messages.length = 0;
+    const ids = ['digest-a', 'digest-b', 'digest-c'];
+    const texts = await Promise.all(ids.map((id, i) => siteText([['id: mill-lane-bakery', `id: ${id}`], ['name: Mill Lane Bakery', `name: Digest Site ${i + 1}`]])));
+    const pushed = await Promise.all(texts.map((t) => push(weir, lead, t).expect(201)));
+    await weir.runtime.mailer.idle();
+    // The author hears nothing of their own pushes; the other lead hears once.
+    expect(catcher.messages.map((m) => m.to[0])).toEqual([lead2.email]);
+    const { subject, text } = readMessage(catcher.messages[0].raw);
+    expect(subject).toBe('[Weir] 3 revisions await review');
+    for (const [i, res] of pushed.entries()) {
+      expect(text).toContain(`Digest Site ${i + 1} (${ids[i]}), revision 1 by Test lead`);
+      expect(text).toContain(`http://weir.example.test/revisions/${res.body.revision.id}`);
+    }
+  });
+
   it('When mail goes out over SMTP, then the outbox listing is empty', async () => {
     const admin = await account(weir, 'admin');
     expect((await api(weir).get('/api/outbox').set(admin.auth).expect(200)).body.items).toEqual([]);
@@ -135,3 +151,36 @@ describe('e-mail to the outbox folder', () => {
 });
 
 const api = (weir: TestWeir) => request(weir.app);
+
+describe('the awaiting-review digest on its own clock', () => {
+  let weir: TestWeir;
+  beforeAll(async () => {
+    weir = await startWeir({ WEIR_MAIL_DIGEST_S: '1' });
+  });
+  afterAll(() => weir.close());
+
+  it('When nobody waits for the mail, then the gathered notice still goes out once the digest time has passed', async () => {
+    const [installer, lead] = await Promise.all([account(weir, 'installer'), account(weir, 'lead')]);
+    const pushedAt = Date.now();
+    await push(weir, installer, await siteText()).expect(201);
+    // Nothing yet: the push is gathered for a second.
+    expect(await emlFiles(weir)).toEqual([]);
+    let files: string[] = [];
+    for (let i = 0; i < 100 && !files.length; i++) {
+      await new Promise((r) => setTimeout(r, 50));
+      files = await emlFiles(weir);
+    }
+    expect(files).toHaveLength(1);
+    expect(Date.now() - pushedAt).toBeGreaterThanOrEqual(900);
+    const raw = await readFile(path.join(weir.config.outboxDir, files[0]), 'utf8');
+    expect(raw).toContain(`To: ${lead.email}`);
+  });
+});
+
+async function emlFiles(weir: TestWeir): Promise<string[]> {
+  try {
+    return (await readdir(weir.config.outboxDir)).filter((f) => f.endsWith('.eml'));
+  } catch {
+    return [];
+  }
+}
