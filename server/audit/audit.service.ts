@@ -4,6 +4,14 @@ import { sha256Hex } from '../lib/hash.ts';
 import type { Database } from '../db.ts';
 import { AuditEvent } from './audit-event.model.ts';
 
+export interface ChainHead {
+  seq: number;
+  hash: string;
+}
+
+/** The last event of the chain: its seq and hash. */
+export const HEAD_SQL = 'SELECT seq, hash FROM audit_events ORDER BY seq DESC LIMIT 1';
+
 /** The previous hash of the first event. */
 export const GENESIS_HASH = '0'.repeat(64);
 
@@ -114,7 +122,40 @@ export function createAuditService({ db, now }: { db: Database; now: () => Date 
   // The chain's head as this transaction last wrote it: a second append in one transaction need
   // not read it again, since the write lock keeps every other writer out until the commit. Keyed
   // by the transaction object, so a rollback simply drops it with the transaction.
-  const heads = new WeakMap<Transaction, { seq: number; hash: string }>();
+  const heads = new WeakMap<Transaction, ChainHead>();
+
+  /**
+   * The statement that appends `inputs` to the chain after `head`: the head this transaction
+   * last wrote, or else `readHead` (the caller read it inside the same transaction, under the
+   * write lock, so it stays the head). Remembered as the transaction's new head; the caller must
+   * run the statement in `t`, or fail the transaction.
+   */
+  function appendStatement(t: Transaction, readHead: ChainHead | null, inputs: AuditInput[]): { sql: string; params: (string | number | null)[] } {
+    let head = heads.get(t) ?? readHead;
+    const params: (string | number | null)[] = [];
+    for (const input of inputs) {
+      const fields: HashedFields = {
+        seq: (head?.seq ?? 0) + 1,
+        at: now().toISOString(),
+        actorId: input.actor?.id ?? null,
+        actorEmail: input.actor?.email ?? input.actorEmail ?? null,
+        action: input.action,
+        siteId: input.siteId ?? null,
+        revisionId: input.revisionId ?? null,
+        details: input.details ?? {},
+      };
+      const prevHash = head?.hash ?? GENESIS_HASH;
+      const hash = eventHash(prevHash, fields);
+      params.push(fields.seq, fields.at, fields.actorId, fields.actorEmail, fields.action, fields.siteId, fields.revisionId, JSON.stringify(fields.details), prevHash, hash);
+      head = { seq: fields.seq, hash };
+    }
+    if (head) heads.set(t, head);
+    const row = '(?, ?, ?, ?, ?, ?, ?, ?, ?, ?)';
+    return { sql: `INSERT INTO audit_events (seq, at, actor_id, actor_email, action, site_id, revision_id, details, prev_hash, hash) VALUES ${inputs.map(() => row).join(', ')}`, params };
+  }
+
+  /** Whether `t` has appended already (then `appendStatement` needs no head read). */
+  const knowsHead = (t: Transaction) => heads.has(t);
 
   /**
    * Appends one event to the chain. Call it inside the write transaction of the change it
@@ -122,24 +163,9 @@ export function createAuditService({ db, now }: { db: Database; now: () => Date 
    */
   async function append(t: Transaction, input: AuditInput): Promise<void> {
     const sql = db.sql(t);
-    const head = heads.get(t) ?? (await sql.get<{ seq: number; hash: string }>('SELECT seq, hash FROM audit_events ORDER BY seq DESC LIMIT 1'));
-    const fields: HashedFields = {
-      seq: (head?.seq ?? 0) + 1,
-      at: now().toISOString(),
-      actorId: input.actor?.id ?? null,
-      actorEmail: input.actor?.email ?? input.actorEmail ?? null,
-      action: input.action,
-      siteId: input.siteId ?? null,
-      revisionId: input.revisionId ?? null,
-      details: input.details ?? {},
-    };
-    const prevHash = head?.hash ?? GENESIS_HASH;
-    const hash = eventHash(prevHash, fields);
-    await sql.run(
-      'INSERT INTO audit_events (seq, at, actor_id, actor_email, action, site_id, revision_id, details, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
-      [fields.seq, fields.at, fields.actorId, fields.actorEmail, fields.action, fields.siteId, fields.revisionId, JSON.stringify(fields.details), prevHash, hash],
-    );
-    heads.set(t, { seq: fields.seq, hash });
+    const read = knowsHead(t) ? null : ((await sql.get<ChainHead>(HEAD_SQL)) ?? null);
+    const statement = appendStatement(t, read, [input]);
+    await sql.run(statement.sql, statement.params);
   }
 
   function where(f: AuditFilters): WhereOptions<AuditEvent> {
@@ -208,7 +234,7 @@ export function createAuditService({ db, now }: { db: Database; now: () => Date 
     }
   }
 
-  return { append, list, all, verify };
+  return { append, appendStatement, knowsHead, list, all, verify };
 }
 
 export type AuditService = ReturnType<typeof createAuditService>;

@@ -1,5 +1,5 @@
 import { checkSite, diffSites, type Site as SiteDocument } from '../../shared/index.ts';
-import type { AuditService } from '../audit/audit.service.ts';
+import { HEAD_SQL, type AuditInput, type AuditService } from '../audit/audit.service.ts';
 import { can } from '../auth/permissions.ts';
 import { isUniqueViolation, type Database } from '../db.ts';
 import { AppError, notFound } from '../lib/app-error.ts';
@@ -30,6 +30,51 @@ export interface RevisionEvents {
 }
 
 const actorOf = (u: User) => ({ id: u.id, email: u.email });
+
+/** What a push stored, or the revision that already held the same text. */
+type StoredPush =
+  | { id: number; created: false }
+  | {
+      id: number;
+      created: true;
+      revision: Revision;
+      site: { name: string; approvedRevisionId: number | null };
+      documentJson: string;
+      base: { id: number; number: number; document: SiteDocument } | null;
+    };
+
+interface PushRead {
+  /** Null when the site is new. */
+  siteName: string | null;
+  approvedRevisionId: number | null;
+  /** The revision of this site with the same text, if any. */
+  sameId: number | null;
+  lastNumber: number | null;
+  /** `id:number` of each pending revision of the site, comma-separated. */
+  pending: string | null;
+  revisionSeq: number | null;
+  maxRevisionId: number | null;
+  headSeq: number | null;
+  headHash: string | null;
+  baseId: number | null;
+  baseNumber: number | null;
+  baseDocument: string | null;
+}
+
+/** Everything a push must know, read in one statement under the write lock (?1 site id, ?2 sha256). */
+const PUSH_READ_SQL = `
+  SELECT s.name AS siteName, s.approved_revision_id AS approvedRevisionId,
+    (SELECT id FROM revisions WHERE site_id = ?1 AND sha256 = ?2) AS sameId,
+    (SELECT max(number) FROM revisions WHERE site_id = ?1) AS lastNumber,
+    (SELECT group_concat(id || ':' || number) FROM revisions WHERE site_id = ?1 AND state = 'pending') AS pending,
+    (SELECT seq FROM sqlite_sequence WHERE name = 'revisions') AS revisionSeq,
+    (SELECT max(id) FROM revisions) AS maxRevisionId,
+    h.seq AS headSeq, h.hash AS headHash,
+    b.id AS baseId, b.number AS baseNumber, b.document AS baseDocument
+  FROM (SELECT 1)
+  LEFT JOIN sites s ON s.id = ?1
+  LEFT JOIN revisions b ON b.id = s.approved_revision_id
+  LEFT JOIN (${HEAD_SQL}) h`;
 const withAuthor = { model: User, as: 'author' };
 const withReviews = { model: Review, as: 'reviews', include: [{ model: User, as: 'reviewer' }] };
 
@@ -46,44 +91,34 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
     const siteId = doc.site.id;
     const sha256 = sha256Hex(text);
 
-    // Hand-written statements on the transaction's connection (db.sql): a push is the write the
-    // fleet makes most, and Sequelize's query path cost more than the SQL (npm run bench, api).
+    // Hand-written statements on the transaction's connection (db.sql), one read for everything
+    // the push must know and then every write issued at once, unawaited (db.writePipelined): a
+    // push is the write the fleet makes most, and each statement awaited in turn cost a turn of
+    // the busy event loop (npm run bench, api). The writes cannot fail on what was read: the
+    // read saw every conflict first.
     const stored = async () =>
-      db.write(async (t) => {
+      db.writePipelined<StoredPush>(async (t) => {
         const sql = db.sql(t);
         const at = now();
         const atText = toStoredDate(at);
-        const found = await sql.get<{ name: string; approvedRevisionId: number | null }>('SELECT name, approved_revision_id AS approvedRevisionId FROM sites WHERE id = ?', [siteId]);
-        if (found) {
-          const same = await sql.get<{ id: number }>('SELECT id FROM revisions WHERE site_id = ? AND sha256 = ?', [siteId, sha256]);
-          if (same) return { id: same.id, created: false as const };
-        } else {
-          await sql.run(
-            `INSERT INTO sites (id, name, status, latest_state, approved_revision_id, latest_revision_id, error_count, warning_count, updated_by_id, created_at, updated_at)
-             VALUES (?, ?, 'pending', 'pending', NULL, NULL, 0, 0, ?, ?, ?)`,
-            [siteId, doc.site.name, author.id, atText, atText],
-          );
-          await audit.append(t, { action: 'site.created', actor: actorOf(author), siteId, details: { name: doc.site.name } });
-        }
-        const approvedRevisionId = found?.approvedRevisionId ?? null;
-
-        // The last number and the pending revisions in one statement; a new site has neither.
-        let lastNumber = 0;
-        let older: { id: number; number: number }[] = [];
-        if (found) {
-          const rows = await sql.all<{ lastNumber: number | null; id: number | null; number: number | null }>(
-            `SELECT m.n AS lastNumber, r.id AS id, r.number AS number
-               FROM (SELECT max(number) AS n FROM revisions WHERE site_id = ?) m
-               LEFT JOIN revisions r ON r.site_id = ? AND r.state = 'pending'
-              ORDER BY r.id`,
-            [siteId, siteId],
-          );
-          lastNumber = rows[0]?.lastNumber ?? 0;
-          older = rows.filter((x) => x.id !== null).map((x) => ({ id: x.id!, number: x.number! }));
-        }
+        const known = await sql.get<PushRead>(PUSH_READ_SQL, [siteId, sha256]);
+        if (!known) throw new Error('the push read returned no row');
+        if (known.sameId !== null) return { value: { id: known.sameId, created: false as const }, issued: Promise.resolve() };
+        const isNew = known.siteName === null;
+        const approvedRevisionId = known.approvedRevisionId;
+        const older = (known.pending ?? '')
+          .split(',')
+          .filter(Boolean)
+          .map((p) => p.split(':').map(Number))
+          .map(([id, number]) => ({ id, number }))
+          .sort((a, b) => a.id - b.id);
+        // The id the row gets (AUTOINCREMENT: one past the highest ever given), named up front so
+        // that the writes need not wait for the insert to learn it.
+        const id = Math.max(known.revisionSeq ?? 0, known.maxRevisionId ?? 0) + 1;
         const fields = {
+          id,
           siteId,
-          number: lastNumber + 1,
+          number: (known.lastNumber ?? 0) + 1,
           yaml: text,
           sha256,
           document: doc,
@@ -101,46 +136,65 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
           createdAt: at,
         };
         const documentJson = JSON.stringify(doc);
-        const { lastId } = await sql.run(
-          `INSERT INTO revisions (site_id, number, yaml, sha256, document, findings, summary, error_count, warning_count, info_count, author_id, message, parent_id, state, decided_at, decided_by_id, created_at)
-           VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'pending', NULL, NULL, ?)`,
-          [siteId, fields.number, text, sha256, documentJson, JSON.stringify(fields.findings), fields.summary === null ? null : JSON.stringify(fields.summary), fields.errorCount, fields.warningCount, fields.infoCount, author.id, message, approvedRevisionId, atText],
+        // The file names the site until a revision is approved; then the approved one does.
+        const name = approvedRevisionId === null ? doc.site.name : known.siteName!;
+        const events: AuditInput[] = [];
+        const writes: Promise<unknown>[] = [];
+        if (isNew) {
+          writes.push(
+            sql.run(
+              `INSERT INTO sites (id, name, status, latest_state, approved_revision_id, latest_revision_id, error_count, warning_count, updated_by_id, created_at, updated_at)
+               VALUES (?, ?, 'pending', 'pending', NULL, NULL, 0, 0, ?, ?, ?)`,
+              [siteId, doc.site.name, author.id, atText, atText],
+            ),
+          );
+          events.push({ action: 'site.created', actor: actorOf(author), siteId, details: { name: doc.site.name } });
+        }
+        writes.push(
+          sql.run(
+            `INSERT INTO revisions (id, site_id, number, yaml, sha256, document, findings, summary, error_count, warning_count, info_count, author_id, message, parent_id, state, decided_at, decided_by_id, created_at)
+             VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'pending', NULL, NULL, ?)`,
+            [id, siteId, fields.number, text, sha256, documentJson, JSON.stringify(fields.findings), fields.summary === null ? null : JSON.stringify(fields.summary), fields.errorCount, fields.warningCount, fields.infoCount, author.id, message, approvedRevisionId, atText],
+          ),
         );
-        const revision = Revision.build({ id: lastId, ...fields }, { isNewRecord: false, raw: true });
-        await audit.append(t, {
+        events.push({
           action: 'revision.pushed',
           actor: actorOf(author),
           siteId,
-          revisionId: revision.id,
-          details: { number: revision.number, sha256, message, parentId: revision.parentId, errorCount: revision.errorCount, warningCount: revision.warningCount, infoCount: revision.infoCount },
+          revisionId: id,
+          details: { number: fields.number, sha256, message, parentId: approvedRevisionId, errorCount: fields.errorCount, warningCount: fields.warningCount, infoCount: fields.infoCount },
         });
         // One revision awaits review per site: the newer push replaces the older.
         for (const old of older) {
-          await sql.run(`UPDATE revisions SET state = 'superseded', decided_at = ? WHERE id = ?`, [atText, old.id]);
-          await audit.append(t, { action: 'revision.superseded', actor: actorOf(author), siteId, revisionId: old.id, details: { number: old.number, supersededBy: revision.id } });
+          writes.push(sql.run(`UPDATE revisions SET state = 'superseded', decided_at = ? WHERE id = ?`, [atText, old.id]));
+          events.push({ action: 'revision.superseded', actor: actorOf(author), siteId, revisionId: old.id, details: { number: old.number, supersededBy: id } });
         }
-        // The file names the site until a revision is approved; then the approved one does.
-        const name = approvedRevisionId === null ? doc.site.name : found!.name;
-        await sql.run(
-          `UPDATE sites SET name = ?, latest_revision_id = ?, latest_state = 'pending', status = ?, error_count = ?, warning_count = ?, updated_by_id = ?, updated_at = ? WHERE id = ?`,
-          [name, revision.id, deriveSiteStatus('pending', approvedRevisionId), revision.errorCount, revision.warningCount, author.id, atText, siteId],
+        writes.push(
+          sql.run(
+            `UPDATE sites SET name = ?, latest_revision_id = ?, latest_state = 'pending', status = ?, error_count = ?, warning_count = ?, updated_by_id = ?, updated_at = ? WHERE id = ?`,
+            [name, id, deriveSiteStatus('pending', approvedRevisionId), fields.errorCount, fields.warningCount, author.id, atText, siteId],
+          ),
         );
-        // The approved revision the new one is compared with, read under the same lock.
-        const base =
-          approvedRevisionId === null
-            ? null
-            : await sql.get<{ id: number; number: number; document: string }>('SELECT id, number, document FROM revisions WHERE id = ?', [approvedRevisionId]);
+        const head = known.headSeq === null ? null : { seq: known.headSeq, hash: known.headHash! };
+        const log = audit.appendStatement(t, head, events);
+        writes.push(sql.run(log.sql, log.params));
+        const revision = Revision.build(fields, { isNewRecord: false, raw: true });
         return {
-          id: revision.id,
-          created: true as const,
-          revision,
-          site: { name, approvedRevisionId },
-          documentJson,
-          base: base ? { id: base.id, number: base.number, document: JSON.parse(base.document) as SiteDocument } : null,
+          value: {
+            id,
+            created: true as const,
+            revision,
+            site: { name, approvedRevisionId },
+            documentJson,
+            // The approved revision the new one is compared with, read under the same lock.
+            base: known.baseId === null ? null : { id: known.baseId, number: known.baseNumber!, document: JSON.parse(known.baseDocument!) as SiteDocument },
+          },
+          // Awaited by the writer before the COMMIT: the group's next write need not wait.
+          issued: Promise.all(writes),
         };
       });
 
-    let result: Awaited<ReturnType<typeof stored>>;
+    let result: StoredPush;
     try {
       result = await stored();
     } catch (err) {
