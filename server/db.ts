@@ -31,6 +31,12 @@ export interface Database {
    * of an issued statement fails the write's whole group.
    */
   writePipelined<T>(fn: (t: Transaction) => Promise<Issued<T>>): Promise<T>;
+  /**
+   * SQLite's `PRAGMA data_version` on a connection that never writes: it changes whenever any
+   * other connection, of this process or another, has committed a change since the last call.
+   * For caches of answers: one that was made at the same version is still true.
+   */
+  dataVersion(): Promise<number>;
   /** How many writes wait for the transaction that runs now (they will share the next one). */
   queuedWrites(): number;
   /**
@@ -339,6 +345,21 @@ export async function openDatabase(file: string): Promise<Database> {
   }
 
   const writer = createWriter(sequelize);
+  // Opened read-only, so that no write of this process can ever run on it.
+  let watch: Promise<sqlite3.Database> | null = null;
+  const watcher = () =>
+    (watch ??= new Promise<sqlite3.Database>((resolve, reject) => {
+      const c: sqlite3.Database = new sqlite3.Database(file, sqlite3.OPEN_READONLY, (err) => {
+        if (err) {
+          watch = null;
+          reject(err);
+        } else {
+          c.configure('busyTimeout', BUSY_TIMEOUT_MS);
+          resolve(c);
+        }
+      });
+    }));
+  const watchSql = sqlOn(watcher);
   const manager = sequelize.connectionManager as unknown as { getConnection(options: object): Promise<WeirConnection> };
   // The connection Sequelize keeps for statements outside transactions (set up as above).
   const shared = sqlOn(() => manager.getConnection({}));
@@ -348,6 +369,7 @@ export async function openDatabase(file: string): Promise<Database> {
     write: writer.write,
     writePipelined: writer.writePipelined,
     queuedWrites: writer.queued,
+    dataVersion: async () => (await watchSql.get<{ data_version: number }>('PRAGMA data_version'))!.data_version,
     get: <T>(sql: string, params: unknown[]) => shared.get<T>(sql, params as Param[]),
     sql(t?: Transaction) {
       if (!t) return shared;
@@ -358,6 +380,11 @@ export async function openDatabase(file: string): Promise<Database> {
       });
     },
     async close() {
+      if (watch) {
+        const c = await watch.catch(() => null);
+        watch = null;
+        if (c) await new Promise<void>((resolve) => c.close(() => resolve()));
+      }
       await sequelize.close();
       openFile = null;
     },

@@ -33,7 +33,7 @@ export function createServices(deps: AppDeps) {
     auth: createAuthService({ db, audit, config }),
     users: createUsersService({ db, audit, now }),
     revisions: createRevisionsService({ db, audit, now, events }),
-    sites: createSitesService(),
+    sites: createSitesService({ db }),
     attachments: createAttachmentsService({ db, audit, storage, now }),
   };
 }

@@ -31,7 +31,7 @@ export function sitesRouter(mount: MountRoute, sites: SitesService, revisions: R
 
   mount(router, 'sites.list', async (req, res) => {
     const query = checkListQuery(req.query);
-    res.json(await sites.list({ ...query, state: query.state ?? query.status }));
+    res.type('application/json').send(await sites.listJson({ ...query, state: query.state ?? query.status }));
   });
 
   mount(router, 'sites.get', async (req, res) => {

@@ -1,4 +1,6 @@
-import { QueryTypes } from 'sequelize';
+import { LRUCache } from 'lru-cache';
+import type { Database } from '../db.ts';
+import { storedDateToIso } from '../lib/stored-date.ts';
 import { Revision } from '../revisions/revision.model.ts';
 import { REVISION_LIST_EXCLUDE, toRevision } from '../revisions/revision.view.ts';
 import { notFound } from '../lib/app-error.ts';
@@ -36,7 +38,27 @@ export const toSiteListItem = (s: Site) => ({
   updatedBy: s.updatedBy ? { name: s.updatedBy.name, email: s.updatedBy.email } : null,
 });
 
-export function createSitesService() {
+/** Cached list answers, at most this many bytes of JSON in all. */
+const LIST_CACHE_BYTES = 16 * 1024 * 1024;
+
+export function createSitesService({ db }: { db: Database }) {
+  // Answers of the list, each with the data_version it was read at: one is served again only
+  // while nothing at all has been committed since, by this process or any other. Leads page
+  // through the same few pages far more often than anyone writes.
+  const answers = new LRUCache<string, { version: number; body: string }>({ maxSize: LIST_CACHE_BYTES, sizeCalculation: (a) => a.body.length + 64 });
+
+  /** The list's answer as JSON text, from the cache when nothing has changed since it was made. */
+  async function listJson(query: SiteQuery): Promise<string> {
+    const key = JSON.stringify([query.page, query.limit, query.q?.trim().toLowerCase() ?? '', query.state ?? '', query.sort]);
+    // Read before the list, so a cached answer is never older than the version it is kept under.
+    const version = await db.dataVersion();
+    const hit = answers.get(key);
+    if (hit && hit.version === version) return hit.body;
+    const body = JSON.stringify(await list(query));
+    answers.set(key, { version, body });
+    return body;
+  }
+
   async function list(query: SiteQuery) {
     // One hand-written SELECT of the columns the answer needs, and a count of the sites table
     // alone: Sequelize's findAndCountAll joined every site to its revisions just to count them
@@ -44,7 +66,7 @@ export function createSitesService() {
     // State filters as DEVELOPERS.md says: `never-approved` overlaps the others by design; the
     // search uses instr, not LIKE, so a `%` or `_` is just a character.
     const where: string[] = [];
-    const params: unknown[] = [];
+    const params: (string | number)[] = [];
     if (query.state === 'never-approved') where.push('s.approved_revision_id IS NULL');
     else if (query.state) { where.push('s.latest_state = ?'); params.push(query.state); }
     const needle = query.q?.trim().toLowerCase();
@@ -57,12 +79,12 @@ export function createSitesService() {
         a.id AS aId, a.name AS aName, a.email AS aEmail, u.id AS uId, u.name AS uName, u.email AS uEmail
       FROM sites s LEFT JOIN revisions r ON r.id = s.latest_revision_id LEFT JOIN users a ON a.id = r.author_id LEFT JOIN users u ON u.id = s.updated_by_id
       ${w} ORDER BY ${column} ${dir}, s.id ASC LIMIT ? OFFSET ?`;
-    const seq = Site.sequelize!;
+    const read = db.sql();
     const [countRows, rows] = await Promise.all([
-      seq.query(`SELECT count(*) AS n FROM sites s ${w}`, { replacements: params, type: QueryTypes.SELECT }) as Promise<{ n: number }[]>,
-      seq.query(sql, { replacements: [...params, query.limit, (query.page - 1) * query.limit], type: QueryTypes.SELECT }) as Promise<Record<string, any>[]>,
+      read.all<{ n: number }>(`SELECT count(*) AS n FROM sites s ${w}`, params),
+      read.all<Record<string, any>>(sql, [...params, query.limit, (query.page - 1) * query.limit]),
     ]);
-    const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOString());
+    const iso = storedDateToIso;
     const items = rows.map((x) => ({
       id: x.id, name: x.name, status: x.status, approvedRevisionId: x.approvedRevisionId,
       latestRevision: x.rId == null ? null : { id: x.rId, siteId: x.rSiteId, number: x.rNumber, state: x.rState, sha256: x.rSha, message: x.rMessage, parentId: x.rParent, errorCount: x.rErr, warningCount: x.rWarn, infoCount: x.rInfo, author: x.aId == null ? null : { id: x.aId, name: x.aName, email: x.aEmail }, createdAt: iso(x.rCreated), decidedAt: iso(x.rDecided) },
@@ -80,7 +102,7 @@ export function createSitesService() {
     return { site: toSiteListItem(site), approved: withSummary(site.approvedRevision), latest: withSummary(site.latestRevision) };
   }
 
-  return { list, get };
+  return { list, listJson, get };
 }
 
 export type SitesService = ReturnType<typeof createSitesService>;
