@@ -1,13 +1,13 @@
 import { checkSite, diffSites, type Site as SiteDocument } from '../../shared/index.ts';
-import { HEAD_SQL, type AuditInput, type AuditService } from '../audit/audit.service.ts';
+import type { AuditService } from '../audit/audit.service.ts';
 import { can } from '../auth/permissions.ts';
-import { isUniqueViolation, type Database } from '../db.ts';
+import type { Database } from '../db.ts';
 import { AppError, notFound } from '../lib/app-error.ts';
 import { sha256Hex } from '../lib/hash.ts';
-import { toStoredDate } from '../lib/stored-date.ts';
 import { Site, deriveSiteStatus } from '../sites/site.model.ts';
 import { User } from '../users/user.model.ts';
 import { Review, type Decision } from './review.model.ts';
+import { PUSH_BATCH_MAX, storeBatch, type PushInput, type StoredPush } from './push-batch.ts';
 import { Revision } from './revision.model.ts';
 import { REVISION_LIST_EXCLUDE, toReview, toRevision, type ApprovalBlocker, type RevisionDetailView, type RevisionView } from './revision.view.ts';
 
@@ -31,54 +31,33 @@ export interface RevisionEvents {
 
 const actorOf = (u: User) => ({ id: u.id, email: u.email });
 
-/** What a push stored, or the revision that already held the same text. */
-type StoredPush =
-  | { id: number; created: false }
-  | {
-      id: number;
-      created: true;
-      revision: Revision;
-      site: { name: string; approvedRevisionId: number | null };
-      documentJson: string;
-      base: { id: number; number: number; document: SiteDocument } | null;
-    };
-
-interface PushRead {
-  /** Null when the site is new. */
-  siteName: string | null;
-  approvedRevisionId: number | null;
-  /** The revision of this site with the same text, if any. */
-  sameId: number | null;
-  lastNumber: number | null;
-  /** `id:number` of each pending revision of the site, comma-separated. */
-  pending: string | null;
-  revisionSeq: number | null;
-  maxRevisionId: number | null;
-  headSeq: number | null;
-  headHash: string | null;
-  baseId: number | null;
-  baseNumber: number | null;
-  baseDocument: string | null;
-}
-
-/** Everything a push must know, read in one statement under the write lock (?1 site id, ?2 sha256). */
-const PUSH_READ_SQL = `
-  SELECT s.name AS siteName, s.approved_revision_id AS approvedRevisionId,
-    (SELECT id FROM revisions WHERE site_id = ?1 AND sha256 = ?2) AS sameId,
-    (SELECT max(number) FROM revisions WHERE site_id = ?1) AS lastNumber,
-    (SELECT group_concat(id || ':' || number) FROM revisions WHERE site_id = ?1 AND state = 'pending') AS pending,
-    (SELECT seq FROM sqlite_sequence WHERE name = 'revisions') AS revisionSeq,
-    (SELECT max(id) FROM revisions) AS maxRevisionId,
-    h.seq AS headSeq, h.hash AS headHash,
-    b.id AS baseId, b.number AS baseNumber, b.document AS baseDocument
-  FROM (SELECT 1)
-  LEFT JOIN sites s ON s.id = ?1
-  LEFT JOIN revisions b ON b.id = s.approved_revision_id
-  LEFT JOIN (${HEAD_SQL}) h`;
 const withAuthor = { model: User, as: 'author' };
 const withReviews = { model: Review, as: 'reviews', include: [{ model: User, as: 'reviewer' }] };
 
 export function createRevisionsService({ db, audit, now, events }: { db: Database; audit: AuditService; now: () => Date; events: RevisionEvents }) {
+  // Pushes that arrive while the writer is busy wait together in one batch and are stored by
+  // one write (push-batch.ts): under load, a handful of statements per batch instead of a
+  // dozen per push (npm run bench, api). A push joins the batch until the writer takes it up.
+  let waiting: { batch: PushInput[]; stored: Promise<StoredPush[]> } | null = null;
+
+  async function store(input: PushInput): Promise<StoredPush> {
+    if (!waiting || waiting.batch.length >= PUSH_BATCH_MAX) {
+      const batch: PushInput[] = [];
+      const mine = {
+        batch,
+        stored: db.writePipelined((t) => {
+          // Taken up: later pushes start a batch of their own.
+          if (waiting === mine) waiting = null;
+          return storeBatch(db, audit, t, now(), batch);
+        }),
+      };
+      waiting = mine;
+    }
+    const { batch, stored } = waiting;
+    const index = batch.push(input) - 1;
+    return (await stored)[index];
+  }
+
   /**
    * Checks the file with the engine (the client's findings are never trusted) and stores it as a
    * pending revision. The same text again answers the existing revision; a file that does not
@@ -89,121 +68,8 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
     if (!check.site) throw new AppError(422, 'invalid-site', 'the site file does not parse or does not match the schema', check.findings);
     const doc: SiteDocument = check.site;
     const siteId = doc.site.id;
-    const sha256 = sha256Hex(text);
 
-    // Hand-written statements on the transaction's connection (db.sql), one read for everything
-    // the push must know and then every write issued at once, unawaited (db.writePipelined): a
-    // push is the write the fleet makes most, and each statement awaited in turn cost a turn of
-    // the busy event loop (npm run bench, api). The writes cannot fail on what was read: the
-    // read saw every conflict first.
-    const stored = async () =>
-      db.writePipelined<StoredPush>(async (t) => {
-        const sql = db.sql(t);
-        const at = now();
-        const atText = toStoredDate(at);
-        const known = await sql.get<PushRead>(PUSH_READ_SQL, [siteId, sha256]);
-        if (!known) throw new Error('the push read returned no row');
-        if (known.sameId !== null) return { value: { id: known.sameId, created: false as const }, issued: Promise.resolve() };
-        const isNew = known.siteName === null;
-        const approvedRevisionId = known.approvedRevisionId;
-        const older = (known.pending ?? '')
-          .split(',')
-          .filter(Boolean)
-          .map((p) => p.split(':').map(Number))
-          .map(([id, number]) => ({ id, number }))
-          .sort((a, b) => a.id - b.id);
-        // The id the row gets (AUTOINCREMENT: one past the highest ever given), named up front so
-        // that the writes need not wait for the insert to learn it.
-        const id = Math.max(known.revisionSeq ?? 0, known.maxRevisionId ?? 0) + 1;
-        const fields = {
-          id,
-          siteId,
-          number: (known.lastNumber ?? 0) + 1,
-          yaml: text,
-          sha256,
-          document: doc,
-          findings: check.findings,
-          summary: check.summary ?? null,
-          errorCount: check.counts.error,
-          warningCount: check.counts.warning,
-          infoCount: check.counts.info,
-          authorId: author.id,
-          message,
-          parentId: approvedRevisionId,
-          state: 'pending' as const,
-          decidedAt: null,
-          decidedById: null,
-          createdAt: at,
-        };
-        const documentJson = JSON.stringify(doc);
-        // The file names the site until a revision is approved; then the approved one does.
-        const name = approvedRevisionId === null ? doc.site.name : known.siteName!;
-        const events: AuditInput[] = [];
-        const writes: Promise<unknown>[] = [];
-        if (isNew) {
-          writes.push(
-            sql.run(
-              `INSERT INTO sites (id, name, status, latest_state, approved_revision_id, latest_revision_id, error_count, warning_count, updated_by_id, created_at, updated_at)
-               VALUES (?, ?, 'pending', 'pending', NULL, NULL, 0, 0, ?, ?, ?)`,
-              [siteId, doc.site.name, author.id, atText, atText],
-            ),
-          );
-          events.push({ action: 'site.created', actor: actorOf(author), siteId, details: { name: doc.site.name } });
-        }
-        writes.push(
-          sql.run(
-            `INSERT INTO revisions (id, site_id, number, yaml, sha256, document, findings, summary, error_count, warning_count, info_count, author_id, message, parent_id, state, decided_at, decided_by_id, created_at)
-             VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'pending', NULL, NULL, ?)`,
-            [id, siteId, fields.number, text, sha256, documentJson, JSON.stringify(fields.findings), fields.summary === null ? null : JSON.stringify(fields.summary), fields.errorCount, fields.warningCount, fields.infoCount, author.id, message, approvedRevisionId, atText],
-          ),
-        );
-        events.push({
-          action: 'revision.pushed',
-          actor: actorOf(author),
-          siteId,
-          revisionId: id,
-          details: { number: fields.number, sha256, message, parentId: approvedRevisionId, errorCount: fields.errorCount, warningCount: fields.warningCount, infoCount: fields.infoCount },
-        });
-        // One revision awaits review per site: the newer push replaces the older.
-        for (const old of older) {
-          writes.push(sql.run(`UPDATE revisions SET state = 'superseded', decided_at = ? WHERE id = ?`, [atText, old.id]));
-          events.push({ action: 'revision.superseded', actor: actorOf(author), siteId, revisionId: old.id, details: { number: old.number, supersededBy: id } });
-        }
-        writes.push(
-          sql.run(
-            `UPDATE sites SET name = ?, latest_revision_id = ?, latest_state = 'pending', status = ?, error_count = ?, warning_count = ?, updated_by_id = ?, updated_at = ? WHERE id = ?`,
-            [name, id, deriveSiteStatus('pending', approvedRevisionId), fields.errorCount, fields.warningCount, author.id, atText, siteId],
-          ),
-        );
-        const head = known.headSeq === null ? null : { seq: known.headSeq, hash: known.headHash! };
-        const log = audit.appendStatement(t, head, events);
-        writes.push(sql.run(log.sql, log.params));
-        const revision = Revision.build(fields, { isNewRecord: false, raw: true });
-        return {
-          value: {
-            id,
-            created: true as const,
-            revision,
-            site: { name, approvedRevisionId },
-            documentJson,
-            // The approved revision the new one is compared with, read under the same lock.
-            base: known.baseId === null ? null : { id: known.baseId, number: known.baseNumber!, document: JSON.parse(known.baseDocument!) as SiteDocument },
-          },
-          // Awaited by the writer before the COMMIT: the group's next write need not wait.
-          issued: Promise.all(writes),
-        };
-      });
-
-    let result: StoredPush;
-    try {
-      result = await stored();
-    } catch (err) {
-      // Another process stored the same text between our check and our insert.
-      if (!isUniqueViolation(err)) throw err;
-      const same = await Revision.findOne({ where: { siteId, sha256 }, attributes: ['id'] });
-      if (!same) throw err;
-      result = { id: same.id, created: false };
-    }
+    const result = await store({ text, message, author, doc, check, sha256: sha256Hex(text) });
     if (!result.created) return { revision: await detail(result.id, author), created: false };
     const { revision, site, base, documentJson } = result;
     events.pushed(revision.id, { siteId, siteName: site.name, number: revision.number, message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: { id: author.id, name: author.name, email: author.email } });

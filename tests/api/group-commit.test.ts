@@ -31,10 +31,14 @@ function blocker() {
     await gate;
   });
   const release = async (n: number) => {
-    for (let i = 0; i < 400 && db().queuedWrites() < n; i++) await new Promise((r) => setTimeout(r, 5));
-    expect(db().queuedWrites()).toBe(n);
-    open();
-    await done;
+    try {
+      for (let i = 0; i < 400 && db().queuedWrites() < n; i++) await new Promise((r) => setTimeout(r, 5));
+      expect(db().queuedWrites()).toBe(n);
+    } finally {
+      // Never leave the writer held, even when the expectation fails.
+      open();
+      await done;
+    }
   };
   return { release };
 }
@@ -139,19 +143,52 @@ describe('group commit', () => {
     expect(await tags('d-')).toEqual([]);
   });
 
-  it('When two pushes of one site share a group, then the second sees the first: revisions 1 and 2, the first superseded', async () => {
-    const installer = await account(weir, 'installer', 'same-site');
-    const first = (await siteText()).replace('id: mill-lane-bakery', 'id: one-group-site');
+  it('When one batch holds two pushes of one site and the same text twice, then they come out as pushes one after the other would', async () => {
+    const { storeBatch } = await import('../../server/revisions/push-batch.ts');
+    const { createServices } = await import('../../server/services.ts');
+    const { User } = await import('../../server/users/user.model.ts');
+    const { checkSite } = await import('../../shared/index.ts');
+    const { sha256Hex } = await import('../../server/lib/hash.ts');
+    const who = await account(weir, 'installer', 'batcher');
+    const author = (await User.findByPk(who.id))!;
+    const first = (await siteText()).replace('id: mill-lane-bakery', 'id: one-batch-site');
     const second = first.replace('name: Mill Lane Bakery', 'name: Mill Lane Bakery Annex');
-    const b = blocker();
-    const answers = Promise.all([push(weir, installer, first), push(weir, installer, second)].map((r) => r.then((x) => x)));
-    await b.release(2);
-    const [a, c] = await answers;
-    expect([a.status, c.status]).toEqual([201, 201]);
-    const rows = await db().sql().all<{ number: number; state: string }>(`SELECT number, state FROM revisions WHERE site_id = 'one-group-site' ORDER BY number`);
+    const input = (text: string) => {
+      const check = checkSite(text);
+      return { text, message: null, author, doc: check.site!, check, sha256: sha256Hex(text) };
+    };
+    const audit = createServices(weir.runtime).audit;
+    const stored = await db().writePipelined((t) => storeBatch(db(), audit, t, new Date(), [input(first), input(second), input(second)]));
+    expect(stored.map((s) => s.created)).toEqual([true, true, false]);
+    expect(stored[2].id).toBe(stored[1].id);
+    const rows = await db().sql().all<{ id: number; number: number; state: string }>(`SELECT id, number, state FROM revisions WHERE site_id = 'one-batch-site' ORDER BY number`);
+    expect(rows).toEqual([
+      { id: stored[0].id, number: 1, state: 'superseded' },
+      { id: stored[1].id, number: 2, state: 'pending' },
+    ]);
+    const site = await db().sql().get<{ name: string; latest: number; status: string }>(`SELECT name, latest_revision_id AS latest, status FROM sites WHERE id = 'one-batch-site'`);
+    expect(site).toEqual({ name: 'Mill Lane Bakery Annex', latest: stored[1].id, status: 'pending' });
+    const events = await db().sql().all<{ action: string; revisionId: number | null }>(`SELECT action, revision_id AS revisionId FROM audit_events WHERE site_id = 'one-batch-site' ORDER BY seq`);
+    expect(events).toEqual([
+      { action: 'site.created', revisionId: null },
+      { action: 'revision.pushed', revisionId: stored[0].id },
+      { action: 'revision.pushed', revisionId: stored[1].id },
+      { action: 'revision.superseded', revisionId: stored[0].id },
+    ]);
+    expect((await audit.verify()).ok).toBe(true);
+  });
+
+  it('When pushes of one site arrive at once, then their numbers run 1, 2, 3 and only the last is pending', async () => {
+    const who = await account(weir, 'installer', 'racer');
+    const base = (await siteText()).replace('id: mill-lane-bakery', 'id: racing-site');
+    const texts = [1, 2, 3].map((i) => base.replace('name: Mill Lane Bakery', `name: Mill Lane Bakery ${i}`));
+    const answers = await Promise.all(texts.map((t) => push(weir, who, t)));
+    expect(answers.map((a) => a.status)).toEqual([201, 201, 201]);
+    const rows = await db().sql().all<{ number: number; state: string }>(`SELECT number, state FROM revisions WHERE site_id = 'racing-site' ORDER BY number`);
     expect(rows).toEqual([
       { number: 1, state: 'superseded' },
-      { number: 2, state: 'pending' },
+      { number: 2, state: 'superseded' },
+      { number: 3, state: 'pending' },
     ]);
   });
 
