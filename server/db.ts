@@ -37,6 +37,12 @@ export interface Database {
    * For caches of answers: one that was made at the same version is still true.
    */
   dataVersion(): Promise<number>;
+  /**
+   * One row and the data_version it was read at, in one statement on the connection that
+   * answers `dataVersion` (read-only; statements prepared once and kept): for the lookup every
+   * request makes, so that a cached answer can be checked without a second statement.
+   */
+  getAtVersion<T>(sql: string, params: readonly Param[]): Promise<{ row: T | undefined; dataVersion: number }>;
   /** How many writes wait for the transaction that runs now (they will share the next one). */
   queuedWrites(): number;
   /**
@@ -359,7 +365,30 @@ export async function openDatabase(file: string): Promise<Database> {
         }
       });
     }));
-  const watchSql = sqlOn(watcher);
+  // Kept prepared: these run on every request.
+  const prepared = new Map<string, Promise<sqlite3.Statement>>();
+  const statement = (sql: string) => {
+    let p = prepared.get(sql);
+    if (!p) {
+      p = watcher().then(
+        (c) =>
+          new Promise<sqlite3.Statement>((resolve, reject) => {
+            const st: sqlite3.Statement = c.prepare(sql, (err) => (err ? reject(err) : resolve(st)));
+          }),
+      );
+      p.catch(() => prepared.delete(sql));
+      prepared.set(sql, p);
+    }
+    return p;
+  };
+  const getPrepared = async <T>(sql: string, params: readonly Param[]) => {
+    const st = await statement(sql);
+    // `all`, not `get`: a statement stepped to its end holds no read transaction open (one left
+    // at its first row would pin this connection to an old snapshot).
+    return new Promise<T | undefined>((resolve, reject) => st.all(params, (err: Error | null, rows: T[]) => (err ? reject(err) : resolve(rows[0]))));
+  };
+  const VERSION = '(SELECT data_version FROM pragma_data_version)';
+  const dataVersion = async () => (await getPrepared<{ v: number }>(`SELECT ${VERSION} AS v`, []))!.v;
   const manager = sequelize.connectionManager as unknown as { getConnection(options: object): Promise<WeirConnection> };
   // The connection Sequelize keeps for statements outside transactions (set up as above).
   const shared = sqlOn(() => manager.getConnection({}));
@@ -369,7 +398,14 @@ export async function openDatabase(file: string): Promise<Database> {
     write: writer.write,
     writePipelined: writer.writePipelined,
     queuedWrites: writer.queued,
-    dataVersion: async () => (await watchSql.get<{ data_version: number }>('PRAGMA data_version'))!.data_version,
+    dataVersion,
+    async getAtVersion<T>(sql: string, params: readonly Param[]) {
+      // The caller's SELECT, with the version as one more column of the same statement.
+      const row = await getPrepared<T & { weirDataVersion: number }>(`SELECT ${VERSION} AS weirDataVersion, q.* FROM (${sql}) AS q`, params);
+      if (!row) return { row: undefined, dataVersion: await dataVersion() };
+      const { weirDataVersion, ...rest } = row;
+      return { row: rest as unknown as T, dataVersion: weirDataVersion };
+    },
     get: <T>(sql: string, params: unknown[]) => shared.get<T>(sql, params as Param[]),
     sql(t?: Transaction) {
       if (!t) return shared;
@@ -380,6 +416,11 @@ export async function openDatabase(file: string): Promise<Database> {
       });
     },
     async close() {
+      for (const p of prepared.values()) {
+        const st = await p.catch(() => null);
+        if (st) await new Promise<void>((resolve) => st.finalize(() => resolve()));
+      }
+      prepared.clear();
       if (watch) {
         const c = await watch.catch(() => null);
         watch = null;

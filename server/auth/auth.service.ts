@@ -57,22 +57,29 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
     return { token: issueToken(user), user };
   }
 
-  /** One account by id, read afresh with one plain SELECT (every request does this). */
-  async function findUser(id: number): Promise<User | null> {
-    const row = await db.get<UserRow>(
+  /**
+   * One account by id, read afresh with one plain SELECT (every request does this), with the
+   * data_version it was read at: a route may check its cached answer against it.
+   */
+  async function findUser(id: number): Promise<{ user: User | null; dataVersion: number }> {
+    const { row, dataVersion } = await db.getAtVersion<UserRow>(
       'SELECT id, email, name, password_hash AS passwordHash, role, disabled, token_version AS tokenVersion, created_at AS createdAt, updated_at AS updatedAt FROM users WHERE id = ?',
       [id],
     );
-    if (!row) return null;
+    if (!row) return { user: null, dataVersion };
     // Typed as Sequelize would: booleans from 0/1, dates from the stored text.
-    return User.build(
+    const user = User.build(
       { ...row, disabled: Boolean(row.disabled), createdAt: fromStoredDate(row.createdAt), updatedAt: fromStoredDate(row.updatedAt) } as InferAttributes<User>,
       { isNewRecord: false, raw: true },
     );
+    return { user, dataVersion };
   }
 
-  /** The account behind a bearer token, read afresh so a disable or a role change counts at once. */
-  async function authenticate(header: string | undefined): Promise<User> {
+  /**
+   * The account behind a bearer token, read afresh so a disable or a role change counts at once,
+   * and the data_version of that read.
+   */
+  async function authenticate(header: string | undefined): Promise<{ user: User; dataVersion: number }> {
     const match = /^Bearer\s+(\S+)\s*$/i.exec(header ?? '');
     if (!match) throw unauthenticated('sign in first: this needs an Authorization: Bearer <token> header');
     let claims: TokenClaims;
@@ -82,9 +89,10 @@ export function createAuthService({ db, audit, config }: { db: Database; audit: 
       throw unauthenticated(err instanceof jwt.TokenExpiredError ? 'the session has expired: sign in again' : 'the token is not valid: sign in again');
     }
     const id = Number(claims.sub);
-    const user = Number.isSafeInteger(id) ? await findUser(id) : null;
+    const found = Number.isSafeInteger(id) ? await findUser(id) : null;
+    const user = found?.user;
     if (!user || user.disabled || user.tokenVersion !== claims.tv) throw unauthenticated('the session is no longer valid: sign in again');
-    return user;
+    return { user, dataVersion: found.dataVersion };
   }
 
   return { login, authenticate, issueToken };

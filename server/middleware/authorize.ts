@@ -10,6 +10,11 @@ declare global {
     interface Request {
       /** The signed-in account, set by `authorize` on every route that is not public. */
       user?: User;
+      /**
+       * SQLite's data_version when `authorize` read the account: nothing committed since then
+       * if it is still the same (db.dataVersion), for routes that cache their answers.
+       */
+      dataVersion?: number;
     }
   }
 }
@@ -18,8 +23,9 @@ declare global {
 export function authorize(auth: AuthService, access: Access): RequestHandler {
   if (access === 'public') return (_req, _res, next) => next();
   return async (req, _res, next) => {
-    const user = await auth.authenticate(req.get('authorization'));
+    const { user, dataVersion } = await auth.authenticate(req.get('authorization'));
     req.user = user;
+    req.dataVersion = dataVersion;
     if (access !== 'signed-in' && !can(user.role, access)) {
       throw new AppError(403, 'forbidden', `the ${user.role} role may not do this (it needs ${access})`);
     }

@@ -31,7 +31,10 @@ export function sitesRouter(mount: MountRoute, sites: SitesService, revisions: R
 
   mount(router, 'sites.list', async (req, res) => {
     const query = checkListQuery(req.query);
-    res.type('application/json').send(await sites.listJson({ ...query, state: query.state ?? query.status }));
+    const { body, etag } = await sites.listJson({ ...query, state: query.state ?? query.status }, req.dataVersion);
+    // With the ETag set, Express neither hashes the body again nor sends it to a client that has
+    // it already (304 on a matching If-None-Match).
+    res.type('application/json').set('ETag', etag).send(body);
   });
 
   mount(router, 'sites.get', async (req, res) => {

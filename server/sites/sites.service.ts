@@ -1,3 +1,4 @@
+import etag from 'etag';
 import { LRUCache } from 'lru-cache';
 import type { Database } from '../db.ts';
 import { storedDateToIso } from '../lib/stored-date.ts';
@@ -38,6 +39,11 @@ export const toSiteListItem = (s: Site) => ({
   updatedBy: s.updatedBy ? { name: s.updatedBy.name, email: s.updatedBy.email } : null,
 });
 
+export interface ListAnswer {
+  body: Buffer;
+  etag: string;
+}
+
 /** Cached list answers, at most this many bytes of JSON in all. */
 const LIST_CACHE_BYTES = 16 * 1024 * 1024;
 
@@ -45,18 +51,23 @@ export function createSitesService({ db }: { db: Database }) {
   // Answers of the list, each with the data_version it was read at: one is served again only
   // while nothing at all has been committed since, by this process or any other. Leads page
   // through the same few pages far more often than anyone writes.
-  const answers = new LRUCache<string, { version: number; body: string }>({ maxSize: LIST_CACHE_BYTES, sizeCalculation: (a) => a.body.length + 64 });
+  const answers = new LRUCache<string, ListAnswer & { version: number }>({ maxSize: LIST_CACHE_BYTES, sizeCalculation: (a) => a.body.length + 128 });
 
-  /** The list's answer as JSON text, from the cache when nothing has changed since it was made. */
-  async function listJson(query: SiteQuery): Promise<string> {
+  /**
+   * The list's answer as UTF-8 JSON with its ETag, from the cache when nothing has changed since
+   * it was made (encoded and hashed once, not on every request). `dataVersion`: one the caller
+   * read after the request came in (the sign-in check reads one).
+   */
+  async function listJson(query: SiteQuery, dataVersion?: number): Promise<ListAnswer> {
     const key = JSON.stringify([query.page, query.limit, query.q?.trim().toLowerCase() ?? '', query.state ?? '', query.sort]);
     // Read before the list, so a cached answer is never older than the version it is kept under.
-    const version = await db.dataVersion();
+    const version = dataVersion ?? (await db.dataVersion());
     const hit = answers.get(key);
-    if (hit && hit.version === version) return hit.body;
-    const body = JSON.stringify(await list(query));
-    answers.set(key, { version, body });
-    return body;
+    if (hit && hit.version === version) return hit;
+    const body = Buffer.from(JSON.stringify(await list(query)), 'utf8');
+    const answer = { version, body, etag: etag(body, { weak: true }) };
+    answers.set(key, answer);
+    return answer;
   }
 
   async function list(query: SiteQuery) {

@@ -32,7 +32,7 @@ describe('the cached sites list', () => {
   it('When this process pushes, then the very next list shows it', async () => {
     expect((await list()).total).toBe(0);
     for (const [i, id] of ['cache-a', 'cache-b'].entries()) {
-      await push(weir, installer, (await siteText()).replace('id: mill-lane-bakery', `id: ${id}`)).expect(201);
+      await push(weir, installer, await siteText([['id: mill-lane-bakery', `id: ${id}`], ['name: Mill Lane Bakery', `name: Cache Site ${id}`]])).expect(201);
       const after = await list();
       expect(after.total).toBe(i + 1);
       expect(after.items.map((s) => s.id)).toContain(id);
@@ -43,6 +43,17 @@ describe('the cached sites list', () => {
     const first = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).expect(200);
     const second = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).expect(200);
     expect(second.text).toBe(first.text);
+  });
+
+  it('When a client sends back the ETag it got, then 304 while nothing changed, and the new list after a change', async () => {
+    const first = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).expect(200);
+    const tag = first.headers.etag;
+    expect(tag).toMatch(/^W\/".+"$/);
+    await request(weir.app).get('/api/sites?limit=50').set(lead.auth).set('If-None-Match', tag).expect(304);
+    await push(weir, installer, (await siteText([['id: mill-lane-bakery', 'id: cache-etag'], ['name: Mill Lane Bakery', 'name: Etag Yard']]))).expect(201);
+    const changed = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).set('If-None-Match', tag).expect(200);
+    expect(changed.headers.etag).not.toBe(tag);
+    expect(changed.body.items.map((s: { id: string }) => s.id)).toContain('cache-etag');
   });
 
   it('When a review changes a status, then the list shows the new status', async () => {
