@@ -140,7 +140,7 @@ const WRITER = 'writer';
  * outside a transaction take turns over READ_CONNECTIONS cached connections. Every connection
  * gets the busy timeout, which SQLite keeps per connection.
  */
-function configureEachConnection(sequelize: Sequelize) {
+function configureEachConnection(sequelize: Sequelize, dbOptions: DatabaseOptions) {
   type Manager = {
     connections: Record<string, WeirConnection>;
     getConnection(options?: { uuid?: string }): Promise<WeirConnection>;
@@ -159,6 +159,7 @@ function configureEachConnection(sequelize: Sequelize) {
       connection.weirReady = true;
       connection.weirWriter = !shared;
       connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
+      if (dbOptions.onStatement) connection.on('profile', dbOptions.onStatement);
       // The writer runs statements one after another in the order they were issued, so a
       // transaction may issue several before it awaits them (db.sql).
       if (!shared) connection.serialize();
@@ -326,7 +327,12 @@ export function createMigrator(sequelize: Sequelize) {
 let openFile: string | null = null;
 
 /** Opens (creating if need be) the database file and brings its schema up to date. */
-export async function openDatabase(file: string): Promise<Database> {
+export interface DatabaseOptions {
+  /** Told of every statement SQLite runs, on every connection, with its time (benchmarks, diagnosis). */
+  onStatement?: (sql: string, ms: number) => void;
+}
+
+export async function openDatabase(file: string, options: DatabaseOptions = {}): Promise<Database> {
   if (openFile) throw new Error(`a database is open already in this process (${openFile}): close it first`);
   openFile = file;
   mkdirSync(path.dirname(file), { recursive: true });
@@ -338,7 +344,7 @@ export async function openDatabase(file: string): Promise<Database> {
     // Sequelize's pool is not what serves SQLite: configureEachConnection says which connection runs what.
     pool: { max: 1, min: 0, idle: 10_000 },
   });
-  configureEachConnection(sequelize);
+  configureEachConnection(sequelize, options);
   defineModels(sequelize);
   try {
     // WAL: readers never wait for the writer, and the setting stays with the file.
@@ -361,6 +367,7 @@ export async function openDatabase(file: string): Promise<Database> {
           reject(err);
         } else {
           c.configure('busyTimeout', BUSY_TIMEOUT_MS);
+          if (options.onStatement) c.on('profile', options.onStatement);
           resolve(c);
         }
       });
