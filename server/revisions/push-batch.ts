@@ -42,6 +42,8 @@ interface SiteState {
   pending: { id: number; number: number }[];
   /** Texts the site already has, by SHA-256, with their revision. */
   shas: Map<string, number>;
+  /** Made by this batch. */
+  created: boolean;
   /** The site row as the batch leaves it, when the batch pushed to it. */
   latest: { revisionId: number; errorCount: number; warningCount: number; authorId: number } | null;
 }
@@ -78,7 +80,7 @@ export async function storeBatch(db: Database, audit: AuditService, t: Transacti
   ]);
 
   const sites = new Map<string, SiteState>();
-  for (const id of ids) sites.set(id, { exists: false, name: '', approvedRevisionId: null, base: null, lastNumber: 0, pending: [], shas: new Map(), latest: null });
+  for (const id of ids) sites.set(id, { exists: false, created: false, name: '', approvedRevisionId: null, base: null, lastNumber: 0, pending: [], shas: new Map(), latest: null });
   for (const r of siteRows) {
     Object.assign(sites.get(r.id)!, {
       exists: true,
@@ -97,7 +99,6 @@ export async function storeBatch(db: Database, audit: AuditService, t: Transacti
   const head: ChainHead | null = globals?.headSeq == null ? null : { seq: globals.headSeq, hash: globals.headHash! };
 
   const results: StoredPush[] = [];
-  const newSites: (string | number | null)[] = [];
   const revisionRows: { params: (string | number | null)[]; id: number }[] = [];
   const superseded: number[] = [];
   const events: AuditInput[] = [];
@@ -111,8 +112,8 @@ export async function storeBatch(db: Database, audit: AuditService, t: Transacti
     }
     if (!site.exists) {
       site.exists = true;
+      site.created = true;
       site.name = p.doc.site.name;
-      newSites.push(siteId, p.doc.site.name, p.author.id, atText, atText);
       events.push({ action: 'site.created', actor: actorOf(p.author), siteId, details: { name: p.doc.site.name } });
     }
     const id = nextId++;
@@ -170,13 +171,17 @@ export async function storeBatch(db: Database, audit: AuditService, t: Transacti
   }
 
   const writes: Promise<unknown>[] = [];
-  if (newSites.length) {
-    const rows = newSites.length / 5;
+  const touched = [...sites.entries()].filter(([, s]) => s.latest);
+  // A new site goes in as the batch leaves it, but for its latest revision (which must exist
+  // first): the update after the revisions then changes no indexed column of it.
+  const created = touched.filter(([, s]) => s.created);
+  const row = ([id, s]: [string, SiteState]) => [id, s.name, deriveSiteStatus('pending', s.approvedRevisionId), s.latest!.errorCount, s.latest!.warningCount, s.latest!.authorId];
+  if (created.length) {
     writes.push(
       sql.run(
         `INSERT INTO sites (id, name, status, latest_state, approved_revision_id, latest_revision_id, error_count, warning_count, updated_by_id, created_at, updated_at)
-         VALUES ${Array.from({ length: rows }, () => "(?, ?, 'pending', 'pending', NULL, NULL, 0, 0, ?, ?, ?)").join(', ')}`,
-        newSites,
+         VALUES ${created.map(() => "(?, ?, ?, 'pending', NULL, NULL, ?, ?, ?, ?, ?)").join(', ')}`,
+        created.flatMap((c) => [...row(c), atText, atText]),
       ),
     );
   }
@@ -190,13 +195,21 @@ export async function storeBatch(db: Database, audit: AuditService, t: Transacti
     );
   }
   if (superseded.length) writes.push(sql.run(`UPDATE revisions SET state = 'superseded', decided_at = ? WHERE id IN (${marks(superseded.length)})`, [atText, ...superseded]));
-  const touched = [...sites.entries()].filter(([, s]) => s.latest);
-  if (touched.length) {
+  if (created.length) {
     writes.push(
       sql.run(
-        `UPDATE sites SET name = v.column2, latest_revision_id = v.column3, latest_state = 'pending', status = v.column4, error_count = v.column5, warning_count = v.column6, updated_by_id = v.column7, updated_at = ?
-           FROM (VALUES ${touched.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}) AS v WHERE sites.id = v.column1`,
-        [atText, ...touched.flatMap(([id, s]) => [id, s.name, s.latest!.revisionId, deriveSiteStatus('pending', s.approvedRevisionId), s.latest!.errorCount, s.latest!.warningCount, s.latest!.authorId])],
+        `UPDATE sites SET latest_revision_id = v.column2 FROM (VALUES ${created.map(() => '(?, ?)').join(', ')}) AS v WHERE sites.id = v.column1`,
+        created.flatMap(([id, s]) => [id, s.latest!.revisionId]),
+      ),
+    );
+  }
+  const existing = touched.filter(([, s]) => !s.created);
+  if (existing.length) {
+    writes.push(
+      sql.run(
+        `UPDATE sites SET name = v.column2, status = v.column3, error_count = v.column4, warning_count = v.column5, updated_by_id = v.column6, latest_revision_id = v.column7, latest_state = 'pending', updated_at = ?
+           FROM (VALUES ${existing.map(() => '(?, ?, ?, ?, ?, ?, ?)').join(', ')}) AS v WHERE sites.id = v.column1`,
+        [atText, ...existing.flatMap((e) => [...row(e), e[1].latest!.revisionId])],
       ),
     );
   }
