@@ -33,8 +33,9 @@ export function sitesRouter(mount: MountRoute, sites: SitesService, revisions: R
     const query = checkListQuery(req.query);
     const { body, etag } = await sites.listJson({ ...query, state: query.state ?? query.status }, req.dataVersion);
     // With the ETag set, Express neither hashes the body again nor sends it to a client that has
-    // it already (304 on a matching If-None-Match).
-    res.type('application/json').set('ETag', etag).send(body);
+    // it already (304 on a matching If-None-Match). The browser keeps it for this user only and
+    // asks again every time.
+    res.type('application/json').set({ ETag: etag, 'Cache-Control': 'private, no-cache' }).send(body);
   });
 
   mount(router, 'sites.get', async (req, res) => {

@@ -49,6 +49,7 @@ describe('the cached sites list', () => {
     const first = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).expect(200);
     const tag = first.headers.etag;
     expect(tag).toMatch(/^W\/".+"$/);
+    expect(first.headers['cache-control']).toBe('private, no-cache');
     await request(weir.app).get('/api/sites?limit=50').set(lead.auth).set('If-None-Match', tag).expect(304);
     await push(weir, installer, (await siteText([['id: mill-lane-bakery', 'id: cache-etag'], ['name: Mill Lane Bakery', 'name: Etag Yard']]))).expect(201);
     const changed = await request(weir.app).get('/api/sites?limit=50').set(lead.auth).set('If-None-Match', tag).expect(200);
