@@ -1,6 +1,6 @@
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { Sequelize, Transaction, UniqueConstraintError } from 'sequelize';
+import { Sequelize, Transaction } from 'sequelize';
 import sqlite3 from 'sqlite3';
 import { SequelizeStorage, Umzug } from 'umzug';
 import { initAuditEvent } from './audit/audit-event.model.ts';
@@ -46,13 +46,6 @@ export interface Database {
   /** How many writes wait for the transaction that runs now (they will share the next one). */
   queuedWrites(): number;
   /**
-   * One row of a read outside any transaction, straight from sqlite3 on the shared connection:
-   * for the lookups every request makes, which Sequelize's query path (a model build and a
-   * formatted stack trace per statement) would cost more than the SQL itself. Values come back
-   * as SQLite stores them (booleans as 0/1, dates as text).
-   */
-  get<T>(sql: string, params: unknown[]): Promise<T | undefined>;
-  /**
    * Hand-written statements straight on sqlite3, inside the transaction `t` (on its connection)
    * or, without one, on a shared read connection: for the hot paths (a push, the sites list),
    * where Sequelize's query path costs more than the SQL itself. Dates go in and come back as
@@ -94,10 +87,6 @@ function sqlOn(connection: () => Promise<sqlite3.Database>): Sql {
     },
   };
 }
-
-/** A UNIQUE constraint failed, as Sequelize reports it or as sqlite3 does for a hand-written statement. */
-export const isUniqueViolation = (err: unknown): boolean =>
-  err instanceof UniqueConstraintError || (err instanceof Error && (err as { code?: string }).code === 'SQLITE_CONSTRAINT' && /UNIQUE constraint failed/.test(err.message));
 
 function defineModels(sequelize: Sequelize) {
   initUser(sequelize);
@@ -413,7 +402,6 @@ export async function openDatabase(file: string, options: DatabaseOptions = {}):
       const { weirDataVersion, ...rest } = row;
       return { row: rest as unknown as T, dataVersion: weirDataVersion };
     },
-    get: <T>(sql: string, params: unknown[]) => shared.get<T>(sql, params as Param[]),
     sql(t?: Transaction) {
       if (!t) return shared;
       return sqlOn(async () => {

@@ -16,8 +16,17 @@ export const toReview = (r: Review) => ({
   createdAt: r.createdAt.toISOString(),
 });
 
+/** What `toRevision` reads: a model, or a row read by hand with its dates already in ISO 8601. */
+export type RevisionFields = Pick<Revision, 'id' | 'siteId' | 'number' | 'state' | 'sha256' | 'message' | 'parentId' | 'errorCount' | 'warningCount' | 'infoCount'> & {
+  author?: { id: number; name: string; email: string } | null;
+  createdAt: Date | string;
+  decidedAt: Date | string | null;
+};
+
+const iso = (d: Date | string) => (typeof d === 'string' ? d : d.toISOString());
+
 /** `Revision` of the API contract (DEVELOPERS.md). */
-export const toRevision = (r: Revision) => ({
+export const toRevision = (r: RevisionFields) => ({
   id: r.id,
   siteId: r.siteId,
   number: r.number,
@@ -29,8 +38,8 @@ export const toRevision = (r: Revision) => ({
   warningCount: r.warningCount,
   infoCount: r.infoCount,
   author: toPersonRef(r.author),
-  createdAt: r.createdAt.toISOString(),
-  decidedAt: r.decidedAt ? r.decidedAt.toISOString() : null,
+  createdAt: iso(r.createdAt),
+  decidedAt: r.decidedAt ? iso(r.decidedAt) : null,
 });
 
 export type RevisionView = ReturnType<typeof toRevision>;

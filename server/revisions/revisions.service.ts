@@ -171,21 +171,7 @@ export function createRevisionsService({ db, audit, now, events }: { db: Databas
     const [r, reviewRows] = await Promise.all([read.get<DetailRow>(DETAIL_SQL, [id]), read.all<ReviewRow>(REVIEWS_SQL, [id])]);
     if (!r) throw notFound('the revision');
     if (r.siteRowId === null) throw notFound('the site');
-    const view = {
-      id: r.id,
-      siteId: r.siteId,
-      number: r.number,
-      state: r.state,
-      sha256: r.sha256,
-      message: r.message,
-      parentId: r.parentId,
-      errorCount: r.errorCount,
-      warningCount: r.warningCount,
-      infoCount: r.infoCount,
-      author: r.aId === null ? null : { id: r.aId, name: r.aName!, email: r.aEmail! },
-      createdAt: storedDateToIso(r.createdAt)!,
-      decidedAt: storedDateToIso(r.decidedAt),
-    };
+    const view = toRevision({ ...r, author: r.aId === null ? null : { id: r.aId, name: r.aName!, email: r.aEmail! }, createdAt: storedDateToIso(r.createdAt)!, decidedAt: storedDateToIso(r.decidedAt) });
     return {
       ...view,
       yaml: r.yaml,

@@ -49,4 +49,4 @@ export const toPublicUser = (u: User): PublicUser => ({
   createdAt: u.createdAt.toISOString(),
 });
 
-export const toPersonRef = (u: User | null | undefined) => (u ? { id: u.id, name: u.name, email: u.email } : null);
+export const toPersonRef = (u: Pick<User, 'id' | 'name' | 'email'> | null | undefined) => (u ? { id: u.id, name: u.name, email: u.email } : null);
