@@ -27,6 +27,7 @@ const findingsLine = (n: PushedRevision) =>
  *
  * Pushes are gathered for `digestMs`: a lead hears of one push in one message as before, and of
  * `weir push` of a folder of 200 sites in one message that lists them, not in 200 messages.
+ * A revision decided or superseded while its notice waited is left out.
  */
 export function createNotifications({ mailer, publicUrl, digestMs }: { mailer: Mailer; publicUrl: string; digestMs: number }): RevisionEvents {
   const load = async (revisionId: number) => {
@@ -102,10 +103,17 @@ export function createNotifications({ mailer, publicUrl, digestMs }: { mailer: M
           const a = revision.author;
           notices.push({ revisionId: item.revisionId, notice: { siteId: site.id, siteName: site.name, number: revision.number, message: revision.message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: a ? { id: a.id, name: a.name, email: a.email } : null } });
         }
+        // What was approved, returned or superseded meanwhile awaits review no more.
+        const ids = notices.map((n) => n.revisionId);
+        const open = new Set(
+          ((await Revision.sequelize!.query(`SELECT id FROM revisions WHERE state = 'pending' AND id IN (${ids.map(() => '?').join(', ')})`, { replacements: ids, type: QueryTypes.SELECT })) as { id: number }[]).map((r) => r.id),
+        );
+        const waiting = notices.filter((n) => open.has(n.revisionId));
+        if (!waiting.length) return;
         // Read afresh for every digest: a lead disabled in another process must hear no more.
         const leads = (await User.sequelize!.query('SELECT id, email, name FROM users WHERE role = ? AND disabled = 0', { replacements: ['lead'], type: QueryTypes.SELECT })) as Lead[];
         for (const lead of leads) {
-          const own = notices.filter((n) => n.notice.author?.id !== lead.id);
+          const own = waiting.filter((n) => n.notice.author?.id !== lead.id);
           if (own.length) mailer.send(awaitingReview(lead, own));
         }
       });

@@ -86,6 +86,8 @@ describe('e-mail over SMTP', () => {
     const site = await api(weir).get('/api/sites/mill-lane-bakery').set(installer.auth).expect(200);
     await review(weir, lead, site.body.latest.id, 'approve', 'Good to go').expect(200);
     const bad = await push(weir, installer, await siteText(undersizedCts())).expect(201);
+    // The leads hear of it before it is returned (a notice still gathering when it is decided is dropped).
+    await weir.runtime.mailer.idle();
     await review(weir, lead2, bad.body.revision.id, 'return', 'The CTs are too small for 80 A').expect(200);
     await weir.runtime.mailer.idle();
     const toAuthor = catcher.messages.filter((m) => m.to[0] === installer.email).map((m) => readMessage(m.raw));
@@ -110,6 +112,23 @@ describe('e-mail over SMTP', () => {
     for (const [i, res] of pushed.entries()) {
       expect(text).toContain(`Digest Site ${i + 1} (${ids[i]}), revision 1 by Test lead`);
       expect(text).toContain(`http://weir.example.test/revisions/${res.body.revision.id}`);
+    }
+  });
+
+  it('When a gathered revision is superseded or decided before the digest goes, then it is left out', async () => {
+    catcher.messages.length = 0;
+    const one = await siteText([['id: mill-lane-bakery', 'id: digest-late'], ['name: Mill Lane Bakery', 'name: Late Yard']]);
+    await push(weir, installer, one).expect(201);
+    const newer = await push(weir, installer, one.replace('name: Late Yard', 'name: Late Yard West')).expect(201);
+    const other = await push(weir, installer, await siteText([['id: mill-lane-bakery', 'id: digest-decided'], ['name: Mill Lane Bakery', 'name: Decided Yard']])).expect(201);
+    await review(weir, lead2, other.body.revision.id, 'approve').expect(200);
+    await weir.runtime.mailer.idle();
+    // Only the newer revision of Late Yard still awaits review: one plain message per lead.
+    const notices = catcher.messages.filter((m) => m.raw.includes('awaits review') || m.raw.includes('await review')).map((m) => ({ to: m.to[0], ...readMessage(m.raw) }));
+    expect(notices.map((n) => n.to).sort()).toEqual([lead.email, lead2.email].sort());
+    for (const n of notices) {
+      expect(n.subject).toBe('[Weir] Late Yard West: revision 2 awaits review');
+      expect(n.text).toContain(`/revisions/${newer.body.revision.id}`);
     }
   });
 
