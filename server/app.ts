@@ -47,7 +47,7 @@ export function createApp(deps: AppDeps): Express {
   app.set('trust proxy', config.trustProxy);
   app.set('query parser', 'simple');
 
-  if (!process.env.X_NOPINO) app.use(
+  app.use(
     pinoHttp({
       logger,
       // One short line per request: no headers, so no tokens in the log.
@@ -58,7 +58,7 @@ export function createApp(deps: AppDeps): Express {
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
     }),
   );
-  if (!process.env.X_NOHELMET) app.use(
+  app.use(
     helmet({
       // Served over plain http on a LAN as often as behind TLS: do not rewrite requests to https.
       contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } },
