@@ -1,6 +1,6 @@
 // `weir init`: the safety cautions, the questions (or flags), then a commented site file that
 // passes `weir check`.
-import { existsSync, mkdirSync, realpathSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, realpathSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import inquirer from 'inquirer';
@@ -12,6 +12,7 @@ import { QUESTIONS } from '../lib/init-flags.ts';
 import { gatherAnswers } from '../lib/init-prompts.ts';
 import { renderSiteYaml } from '../lib/init-yaml.ts';
 import { fileBlock, plural } from '../lib/print-findings.ts';
+import { writeFileAtomic } from '../lib/write-atomic.ts';
 
 const SCHEMA_FILE = path.join('schemas', 'site.schema.json');
 /** Where editors find the schema when no copy is near: its $id. */
@@ -38,15 +39,7 @@ export function schemaRefFor(folder: string): string {
 function writeNew(target: string, text: string, force: boolean): void {
   if (!force && existsSync(target)) throw new CliError(`${target} already exists; give --force to overwrite it`);
   mkdirSync(path.dirname(path.resolve(target)), { recursive: true });
-  // Written beside the target and renamed into place: never a half-written site file.
-  const temp = path.join(path.dirname(path.resolve(target)), `.${path.basename(target)}.${process.pid}.tmp`);
-  try {
-    writeFileSync(temp, text, { flag: 'wx' });
-    renameSync(temp, target);
-  } catch (err) {
-    rmSync(temp, { force: true });
-    throw new CliError(`cannot write ${target}: ${(err as Error).message}`);
-  }
+  writeFileAtomic(target, text);
 }
 
 export async function runInit(file: string | undefined, options: Record<string, unknown>, global: { color?: boolean }): Promise<void> {

@@ -1,10 +1,10 @@
 // `weir pull <site-id>`: the approved (or --latest) revision's site file, to a file or stdout.
-import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
-import path from 'node:path';
+import { existsSync, readFileSync } from 'node:fs';
 import { createColour } from '../lib/colour.ts';
 import { CliError, EXIT_FINDINGS } from '../lib/errors.ts';
 import { checkSiteIdArgument, fetchSite, revisionText } from '../lib/remote-site.ts';
 import { openSession } from '../lib/session.ts';
+import { writeFileAtomic } from '../lib/write-atomic.ts';
 
 export async function runPull(siteId: string, options: { output?: string; latest?: boolean; force?: boolean; server?: string; color?: boolean }): Promise<void> {
   checkSiteIdArgument(siteId);
@@ -32,14 +32,6 @@ export async function runPull(siteId: string, options: { output?: string; latest
     }
     if (!options.force) throw new CliError(`${target} exists and differs from ${described}`, 2, 'give --force to overwrite it, or -o another file');
   }
-  // A temporary file renamed into place: an interrupted pull leaves the old file whole.
-  const temp = path.join(path.dirname(path.resolve(target)), `.${path.basename(target)}.${process.pid}.tmp`);
-  try {
-    writeFileSync(temp, text, { flag: 'wx' });
-    renameSync(temp, target);
-  } catch (err) {
-    rmSync(temp, { force: true });
-    throw new CliError(`cannot write ${target}: ${(err as Error).message}`);
-  }
+  writeFileAtomic(target, text);
   process.stdout.write(`${c.green('Wrote')} ${c.bold(target)}: ${described}.\n`);
 }

@@ -234,7 +234,7 @@ export function createAuditService({ db, now }: { db: Database; now: () => Date 
     }
   }
 
-  return { append, appendStatement, knowsHead, list, all, verify };
+  return { append, appendStatement, list, all, verify };
 }
 
 export type AuditService = ReturnType<typeof createAuditService>;

@@ -79,30 +79,18 @@ export function createNotifications({ mailer, publicUrl, digestMs }: { mailer: M
     };
   }
 
-  let gathered: { revisionId: number; notice: PushedRevision | null }[] | null = null;
+  /** The pushes waiting for the next digest; null while none is due. */
+  let gathered: { revisionId: number; notice: PushedRevision }[] | null = null;
 
   return {
-    pushed(revisionId, pushed) {
-      const first = gathered === null;
-      gathered ??= [];
-      const batch = gathered;
-      batch.push({ revisionId, notice: pushed ?? null });
-      if (!first) return;
+    pushed(revisionId, notice) {
+      if (gathered) {
+        gathered.push({ revisionId, notice });
+        return;
+      }
+      const notices = (gathered = [{ revisionId, notice }]);
       mailer.defer('the awaiting-review notices', digestMs, async () => {
         gathered = null;
-        // The push hands over what it stored; read it back only when it did not.
-        const notices: { revisionId: number; notice: PushedRevision }[] = [];
-        for (const item of batch) {
-          if (item.notice) {
-            notices.push({ revisionId: item.revisionId, notice: item.notice });
-            continue;
-          }
-          const found = await load(item.revisionId);
-          if (!found) continue;
-          const { revision, site } = found;
-          const a = revision.author;
-          notices.push({ revisionId: item.revisionId, notice: { siteId: site.id, siteName: site.name, number: revision.number, message: revision.message, errorCount: revision.errorCount, warningCount: revision.warningCount, author: a ? { id: a.id, name: a.name, email: a.email } : null } });
-        }
         // What was approved, returned or superseded meanwhile awaits review no more.
         const ids = notices.map((n) => n.revisionId);
         const open = new Set(

@@ -25,7 +25,7 @@ export interface PushedRevision {
 
 export interface RevisionEvents {
   /** After the commit of a new revision. */
-  pushed(revisionId: number, pushed?: PushedRevision): void;
+  pushed(revisionId: number, pushed: PushedRevision): void;
   /** After the commit of a review. */
   decided(revisionId: number): void;
 }
